@@ -1,0 +1,110 @@
+/**
+ * The contract between `check` and its consumers (describe, report, cli). The summary shape
+ * is the `check --json` document of the interface contract; extend, do not rename.
+ */
+import type { MissingTally } from '@codeweir/codebook';
+
+export type FindingRule =
+  | 'missing-column'
+  | 'unexpected-column'
+  | 'duplicate-column'
+  | 'column-order'
+  | 'ragged-row'
+  | 'not-a-number'
+  | 'not-an-integer'
+  | 'not-a-code'
+  | 'unbinned-value'
+  | 'unbinned-column'
+  | 'impossible'
+  | 'implausible'
+  | 'pattern-mismatch'
+  | 'duplicate-id'
+  | 'answered-when-skipped'
+  | 'blank-when-asked'
+  | 'rule-failed'
+  | 'outlier'
+  | 'extreme'
+  | 'surrounding-space'
+  | 'no-rows';
+
+export type FindingSeverity = 'error' | 'warning' | 'info';
+
+/** One line of the findings log. `row` is the 1-based data row (header not counted); 0 for file- or item-level findings. */
+export interface Finding {
+  row: number;
+  id: string;
+  item: string;
+  value: string;
+  rule: FindingRule;
+  severity: FindingSeverity;
+  message: string;
+  suggestion?: string;
+}
+
+export interface ItemTally {
+  valid: number;
+  invalid: number;
+  /** Counts by missing kind (`blank` and each declared kind that occurred). */
+  missing: Partial<Record<MissingTally, number>>;
+  /** Counts of findings by rule for this item. */
+  findings: Partial<Record<FindingRule, number>>;
+}
+
+export interface GroupItemTally {
+  valid: number;
+  invalid: number;
+  missing: Partial<Record<MissingTally, number>>;
+}
+
+/** The `check --json` document. */
+export interface CheckSummary {
+  codebook: { codebook: string; version: string };
+  file?: string;
+  rows: number;
+  header: { missing: string[]; unexpected: string[]; duplicate: string[]; outOfOrder?: boolean };
+  findings: {
+    total: number;
+    byRule: Partial<Record<FindingRule, number>>;
+    bySeverity: Partial<Record<FindingSeverity, number>>;
+    /** Findings kept in the log (capped per rule by --max-findings-per-rule); counts above stay exact. */
+    logged?: number;
+  };
+  items: Record<string, ItemTally>;
+  /** group item name -> group code text -> item name -> tally */
+  groups: Record<string, Record<string, Record<string, GroupItemTally>>>;
+  rules: Record<string, { passed: number; failed: number; undetermined: number; skipped?: number }>;
+  /** records[k] = number of records with exactly k items missing (any kind). */
+  recordMissing?: number[];
+  accepted?: boolean;
+}
+
+/**
+ * Per-row retained state of one item after the pass, for describe and the report.
+ * Row r (0-based) of the delivery is index r in every column.
+ */
+export type ItemColumn =
+  | {
+      kind: 'coded';
+      item: string;
+      /** 1 + index into the item's `codes` for valid cells; 0 where the cell is not valid. */
+      codes: Uint16Array;
+    }
+  | {
+      kind: 'numeric';
+      item: string;
+      /** The parsed valid value; NaN where the cell is not valid (missing or invalid). */
+      values: Float64Array;
+    };
+
+export interface ColumnStore {
+  rows: number;
+  /** Keyed by item name; text items without codes are not retained. */
+  columns: Record<string, ItemColumn>;
+}
+
+export interface CheckResult {
+  summary: CheckSummary;
+  /** The findings log, in row order, capped per rule. */
+  findings: Finding[];
+  store: ColumnStore;
+}

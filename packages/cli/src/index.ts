@@ -1,0 +1,2 @@
+export { run, formatError } from './cli.ts';
+export type { Io, CommandDef } from './cli.ts';

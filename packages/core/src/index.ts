@@ -1,0 +1,3 @@
+export { CodeweirError, isCodeweirError } from './error.ts';
+export type { ErrorCode, ErrorContext } from './error.ts';
+export { writeFileAtomic, writeFilesAtomic, removePendingTemps, pendingTemps } from './atomic.ts';

@@ -1,0 +1,38 @@
+/**
+ * The row source contract. A delivery is read as batches of rows laid out flat: no object per
+ * row. Row `r` of a batch has fields `fields[offsets[r]] .. fields[offsets[r+1]-1]`.
+ */
+export type Encoding = 'utf-8' | 'windows-1252' | 'latin1' | 'utf-16le' | 'utf-16be';
+
+export interface ReadOptions {
+  /** One character; detected from the header line when absent (`,` `;` tab `|`). */
+  delimiter?: string;
+  /** Default utf-8 (BOM accepted and removed). A UTF-16 BOM is detected and decoded. */
+  encoding?: Encoding;
+  /** Largest field allowed, in bytes; a larger one is a CodeweirError CW_CSV_FIELD_TOO_LARGE. */
+  maxFieldBytes?: number;
+  /** Rows per batch (a hint). */
+  batchRows?: number;
+}
+
+export interface RowBatch {
+  /** Number of rows in the batch. */
+  count: number;
+  /** 1-based data row number of the batch's first row (header excluded). */
+  firstRow: number;
+  fields: string[];
+  /** Length count + 1. */
+  offsets: Uint32Array;
+  /** 1-based physical line on which each row starts (length count). */
+  lines: Uint32Array;
+}
+
+export interface Delivery {
+  file?: string;
+  header: string[];
+  delimiter: string;
+  encoding: Encoding;
+  hadBom: boolean;
+  /** Streams the data rows after the header. */
+  batches(): AsyncIterable<RowBatch>;
+}
