@@ -4,3 +4,28 @@ export { quantile, quantileSorted, type QuantileType } from './quantile.ts';
 export { tukeyFences, OUTLIER_MULTIPLIER, EXTREME_MULTIPLIER, type Fences } from './fences.ts';
 // Moments
 export { Moments } from './moments.ts';
+// Ranks and correlation
+export { averageRanks } from './ranks.ts';
+export { coMoments, pearson, pearsonFromMoments, type CoMoments } from './pearson.ts';
+export { spearman, spearmanFromTable } from './spearman.ts';
+export { mahalanobisSquared, mahalanobisCutoff, bivariateOutliers, type BivariateOutliers } from './mahalanobis.ts';
+// Contingency tables
+export { crossTabulate, margins, expectedCounts, tablePercents, type Table, type Margins, type TablePercents } from './contingency.ts';
+export { pearsonChiSquare, chiSquareUpperTail, type ChiSquareTest } from './chi-square.ts';
+export { cramersV } from './cramers-v.ts';
+export { phi } from './phi.ts';
+export { goodmanKruskalGamma } from './gamma.ts';
+// Group comparisons
+export { etaSquared } from './eta-squared.ts';
+// Shape and spread
+export { skewness } from './skewness.ts';
+export { kurtosis } from './kurtosis.ts';
+export { geometricMean } from './geometric-mean.ts';
+export { coefficientOfVariation, cvFromMoments } from './cv.ts';
+// Counts and tables
+export { modes, modesSorted, modeIndices } from './mode.ts';
+export { frequencies, type FrequencyRow } from './frequencies.ts';
+export { histogramSorted, MAX_BINS, type Histogram } from './histogram.ts';
+// Grouped and weighted data
+export { groupedMedian, classBoundaries, type GroupedClass, type GroupedMedianResult } from './grouped-median.ts';
+export { weightedMean, weightedSd, weightedMoments, weightedQuantile, weightedQuantiles } from './weighted.ts';

@@ -121,13 +121,25 @@ export class Moments {
   }
 
   /**
-   * Accumulates all values of `values` in one pass.
-   * Cost: O(n). Throws nothing.
+   * Accumulates all values of `values`. With every value at hand it takes two passes: the
+   * first finds the mean (sum / n, then one correction term), the second pushes deviations from
+   * it, which are small, so the online updates lose almost nothing even when the data sit far
+   * from zero. Same result as pushing each value, to rounding.
+   * Cost: O(n), two passes. Throws nothing.
    * @example Moments.of([1, 2, 3]).mean // 2
    */
   static of(values: ArrayLike<number>): Moments {
+    const len = values.length;
+    let sum = 0;
+    for (let i = 0; i < len; i++) sum += values[i]!;
+    let shift = len > 0 ? sum / len : 0;
+    // One correction step: the mean of residuals from the rough mean (corrected two-pass).
+    let resid = 0;
+    for (let i = 0; i < len; i++) resid += values[i]! - shift;
+    if (len > 0) shift += resid / len;
     const m = new Moments();
-    for (let i = 0; i < values.length; i++) m.push(values[i]!);
+    for (let i = 0; i < len; i++) m.push(values[i]! - shift);
+    m.mean += shift;
     return m;
   }
 }

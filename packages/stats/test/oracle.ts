@@ -33,17 +33,8 @@ export interface JStatSubset {
 
 export const jStat = (createRequire(import.meta.url)('jstat') as { jStat: JStatSubset }).jStat;
 
-/** Seeded pseudo-random uniform numbers in [0, 1) (mulberry32), so test data is repeatable. */
-export function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Seeded pseudo-random uniform numbers in [0, 1), shared with the benchmark generator. */
+export { seededRandom as seeded } from '../../../bench/generate.ts';
 
 /** The 1001 values of the large-offset set: 10000000.2 then 500 pairs (10000000.1, 10000000.3). */
 export function largeOffsetValues(): number[] {
