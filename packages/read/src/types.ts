@@ -13,6 +13,13 @@ export interface ReadOptions {
   maxFieldBytes?: number;
   /** Rows per batch (a hint). */
   batchRows?: number;
+  /**
+   * Size of each read, in bytes for files and characters for in-memory text (default 8 MiB).
+   * Small values exist for tests of chunk seams.
+   */
+  blockSize?: number;
+  /** Name used in error messages for {@link readDeliveryText} input (default `<text>`). */
+  name?: string;
 }
 
 export interface RowBatch {
@@ -33,6 +40,26 @@ export interface Delivery {
   delimiter: string;
   encoding: Encoding;
   hadBom: boolean;
-  /** Streams the data rows after the header. */
+  /** Streams the data rows after the header. Each call starts a fresh pass. */
   batches(): AsyncIterable<RowBatch>;
+  /** Row terminator found in the first block: LF (CRLF accepted) or CR alone. */
+  newline?: 'lf' | 'cr';
+  /** 1-based physical line of the first data row (after the header and any blank lines before it). */
+  firstDataLine?: number;
+}
+
+/**
+ * A byte range of a delivery's data rows, cut at a row boundary. `firstRow` and `firstLine`
+ * number the range's first row within the whole file.
+ */
+export interface ByteRange {
+  start: number;
+  end: number;
+  firstRow?: number;
+  firstLine?: number;
+}
+
+/** The rows of one byte range, numbered from the range's firstRow/firstLine (default 1). */
+export interface RangeDelivery extends Delivery {
+  range: ByteRange;
 }
