@@ -1,0 +1,104 @@
+/**
+ * Process-level promises on bad input that need a real process: an interrupted run (SIGINT in
+ * the middle of reading a delivery) leaves the previous outputs intact and no temporary files,
+ * and a file the user may not read gets exit 2 and one sentence.
+ */
+import { describe, it, expect, beforeAll } from 'vitest';
+import { spawn } from 'node:child_process';
+import { mkdtemp, writeFile, readFile, readdir, readlink, chmod, stat, open } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { corpusCodebook, cleanRows, seeded, toCsv, HEADER } from './adversarial/corpus.ts';
+
+const repo = resolve(import.meta.dirname, '..');
+const bin = join(repo, 'packages/cli/src/bin.ts');
+
+function start(args: string[], opts: { uid?: number; gid?: number } = {}) {
+  const child = spawn(process.execPath, ['--import', 'tsx', bin, ...args], { cwd: repo, stdio: ['ignore', 'pipe', 'pipe'], ...opts });
+  let stdout = '';
+  let stderr = '';
+  child.stdout.on('data', (d) => (stdout += d));
+  child.stderr.on('data', (d) => (stderr += d));
+  const done = new Promise<{ code: number | null; signal: NodeJS.Signals | null; stdout: string; stderr: string }>((res) =>
+    child.on('close', (code, signal) => res({ code, signal, stdout, stderr })),
+  );
+  return { child, done };
+}
+
+/** The read position of `pid`'s open descriptor on `file`, from Linux's /proc, or undefined. */
+async function readPosition(pid: number, file: string): Promise<number | undefined> {
+  const fds = await readdir(`/proc/${pid}/fd`).catch(() => [] as string[]);
+  for (const fd of fds) {
+    const target = await readlink(`/proc/${pid}/fd/${fd}`).catch(() => '');
+    if (target === file) {
+      const info = await readFile(`/proc/${pid}/fdinfo/${fd}`, 'utf8').catch(() => '');
+      const m = /^pos:\s+(\d+)/m.exec(info);
+      if (m) return Number(m[1]);
+    }
+  }
+  return undefined;
+}
+
+let dir: string;
+let codebook: string;
+beforeAll(async () => {
+  dir = await mkdtemp(join(tmpdir(), 'codeweir-interrupt-'));
+  codebook = join(dir, 'codebook.json');
+  await writeFile(codebook, JSON.stringify(corpusCodebook));
+});
+
+describe('interrupted and unreadable', () => {
+  it('SIGINT mid-file leaves the previous outputs intact and no temporary files', async () => {
+    const out = join(dir, 'out');
+    const small = join(dir, 'small.csv');
+    await writeFile(small, toCsv(HEADER, cleanRows(seeded(7), 50)));
+    const first = await start(['check', small, '--codebook', codebook, '--out', out, '--quiet']).done;
+    expect(first.code, first.stderr).toBe(0);
+    const names = (await readdir(out)).sort();
+    const previous = new Map<string, Buffer>();
+    for (const f of names) previous.set(f, await readFile(join(out, f)));
+
+    // A delivery large enough that reading it takes a while (about 40 MB).
+    const big = join(dir, 'big.csv');
+    const fh = await open(big, 'w');
+    const rand = seeded(11);
+    await fh.write(HEADER.join(',') + '\n');
+    for (let b = 0; b < 40; b++) await fh.write(toCsv(HEADER, cleanRows(rand, 40_000)).slice(HEADER.join(',').length + 1));
+    await fh.close();
+    const size = (await stat(big)).size;
+
+    const run = start(['check', big, '--codebook', codebook, '--out', out, '--quiet', '--threads', '1']);
+    // Wait until the process has read part of the file but not all of it, then interrupt.
+    let pos: number | undefined;
+    for (let i = 0; i < 2000; i++) {
+      pos = await readPosition(run.child.pid!, big);
+      if (pos !== undefined && pos > 0 && pos < size) break;
+      await new Promise((r) => setTimeout(r, 5));
+    }
+    expect(pos, 'the run was caught in the middle of the file').toBeGreaterThan(0);
+    expect(pos!).toBeLessThan(size);
+    run.child.kill('SIGINT');
+    const r = await run.done;
+    expect(r.code).toBe(130);
+    expect(r.stderr).not.toMatch(/^\s+at /m);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    const after = (await readdir(out)).sort();
+    expect(after).toEqual(names);
+    for (const f of names) expect((await readFile(join(out, f))).equals(previous.get(f)!), f).toBe(true);
+  });
+
+  it('a file the user may not read: exit 2 and one sentence naming it', async () => {
+    const secret = join(dir, 'secret.csv');
+    await writeFile(secret, toCsv(HEADER, cleanRows(seeded(3), 5)));
+    await chmod(secret, 0o000);
+    // root reads any file whatever its mode, so run as the unprivileged user `nobody` then.
+    const asRoot = process.getuid?.() === 0;
+    if (asRoot) await chmod(dir, 0o755);
+    const r = await start(['check', secret, '--codebook', codebook, '--json'], asRoot ? { uid: 65534, gid: 65534 } : {}).done;
+    expect(r.code, r.stderr).toBe(2);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toMatch(/secret\.csv/);
+    expect(r.stderr).not.toMatch(/^\s+at /m);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+  });
+});
