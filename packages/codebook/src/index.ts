@@ -1,1 +1,16 @@
 export * from './compiled.ts';
+export * from './schema.ts';
+export { parseCodebook, loadCodebook, loadCodebookOrThrow } from './load.ts';
+export { compileCodebook, buildCompiled } from './compile.ts';
+export { compilePattern, resolveMissing } from './resolve.ts';
+export { analyseCodebook, CHECKS } from './checks/index.ts';
+export type { CodebookCheck } from './checks/context.ts';
+export { PROBLEM_SEVERITY, problem, hasErrors, editDistance, closest, didYouMean } from './problems.ts';
+export type { ProblemCode, CodebookProblem } from './problems.ts';
+export { canonicalNumberText, codeKeys, lookupCell } from './numbers.ts';
+export { ExpressionContext, compileExpression, daysSinceEpoch, MAX_EXPRESSION_DEPTH } from './cel.ts';
+export type { ExpressionItem, ExpressionResult } from './cel.ts';
+export { isUnsafePattern, ambiguousRepetition } from './regex-safety.ts';
+export { scanJson, lineColumn, pointer, escapePointerToken } from './json-scan.ts';
+export type { JsonScan, JsonSyntaxError } from './json-scan.ts';
+export { schemaFileText, validateWithShippedSchema, SCHEMA_FILE_URL } from './json-schema.ts';

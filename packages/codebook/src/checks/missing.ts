@@ -1,0 +1,75 @@
+import { canonicalNumberText, codeKeys } from '../numbers.ts';
+import { didYouMean } from '../problems.ts';
+import { resolveMissing } from '../resolve.ts';
+import type { CodebookCheck } from './context.ts';
+
+const isNumeric = (type: string) => type === 'integer' || type === 'decimal';
+
+function numericValue(code: number | string): number | undefined {
+  if (typeof code === 'number') return code;
+  const c = canonicalNumberText(code);
+  return c === undefined ? undefined : Number(c);
+}
+
+/**
+ * Missing codes: a named set must exist; codes within one list are distinct; a missing code
+ * must be neither a valid code of the item nor a value inside its `range` (either would make a
+ * cell both valid and missing).
+ */
+export const missingCodes: CodebookCheck = {
+  name: 'missing codes',
+  run(ctx) {
+    const sets = ctx.cb.missingSets ?? {};
+    const used = new Set<string>();
+    for (const [name, list] of Object.entries(sets)) {
+      const seen = new Set<string>();
+      list.forEach((m, j) => {
+        const k = String(m.code);
+        if (seen.has(k)) ctx.report('duplicate-missing-code', ['missingSets', name, j, 'code'], `missing code ${JSON.stringify(m.code)} appears twice in set "${name}"`);
+        seen.add(k);
+      });
+    }
+    ctx.cb.items.forEach((it, i) => {
+      if (it.missing === undefined) return;
+      const numeric = isNumeric(it.type);
+      if (typeof it.missing === 'string') {
+        used.add(it.missing);
+        if (!Object.hasOwn(sets, it.missing)) {
+          const names = Object.keys(sets);
+          ctx.report(
+            'unknown-missing-set',
+            ['items', i, 'missing'],
+            `no missing set named "${it.missing}"${didYouMean(it.missing, names) || (names.length ? `; defined sets are ${names.join(', ')}` : '; the codebook defines no missingSets')}`,
+          );
+          return;
+        }
+      }
+      const inline = Array.isArray(it.missing);
+      const at = (j: number) => (inline ? ['items', i, 'missing', j, 'code'] : ['items', i, 'missing']);
+      const from = inline ? '' : ` (from set "${it.missing as string}")`;
+      const validKeys = new Map<string, number | string>();
+      for (const c of it.codes ?? []) for (const k of codeKeys(c.code, numeric)) validKeys.set(k, c.code);
+      const seen = new Set<string>();
+      resolveMissing(ctx.cb, it.missing).forEach((m, j) => {
+        const keys = codeKeys(m.code, numeric);
+        if (inline && keys.some((k) => seen.has(k))) {
+          ctx.report('duplicate-missing-code', at(j), `missing code ${JSON.stringify(m.code)} appears twice in item "${it.name}"`);
+        }
+        for (const k of keys) seen.add(k);
+        const hit = keys.find((k) => validKeys.has(k));
+        if (hit !== undefined) {
+          ctx.report('missing-collides', at(j), `missing code ${JSON.stringify(m.code)}${from} is also a valid code of item "${it.name}"`);
+          return;
+        }
+        const v = numeric ? numericValue(m.code) : undefined;
+        const r = it.range;
+        if (v !== undefined && r && (r.min !== undefined || r.max !== undefined) && (r.min === undefined || v >= r.min) && (r.max === undefined || v <= r.max)) {
+          ctx.report('missing-in-range', at(j), `missing code ${JSON.stringify(m.code)}${from} lies inside the range of item "${it.name}" (${r.min ?? '-inf'} to ${r.max ?? 'inf'}), so it would read as a valid value`);
+        }
+      });
+    });
+    for (const name of Object.keys(sets)) {
+      if (!used.has(name)) ctx.report('unused-missing-set', ['missingSets', name], `missing set "${name}" is not used by any item`);
+    }
+  },
+};

@@ -1,0 +1,114 @@
+/**
+ * Loading a codebook file: read, locate JSON syntax errors, validate against the shipped JSON
+ * Schema (ajv) and the zod schema, run the meaning checks, compile.
+ */
+import { readFile, stat } from 'node:fs/promises';
+import { CodeweirError } from '@codeweir/core';
+import type { CompiledCodebook, LoadResult, Problem } from './compiled.ts';
+import { CodebookSchema } from './schema.ts';
+import { validateWithShippedSchema } from './json-schema.ts';
+import { lineColumn, scanJson } from './json-scan.ts';
+import { ajvErrorsToProblems, zodIssuesToProblems } from './schema-problems.ts';
+import { analyseCodebook } from './checks/index.ts';
+import { buildCompiled } from './compile.ts';
+import { hasErrors, problem, type CodebookProblem } from './problems.ts';
+
+/** Offset of the deepest recorded ancestor of `path` (a missing field points at its object). */
+function offsetOf(positions: ReadonlyMap<string, number>, path: string): number | undefined {
+  let p = path;
+  for (;;) {
+    const o = positions.get(p);
+    if (o !== undefined) return o;
+    if (p === '') return undefined;
+    p = p.slice(0, p.lastIndexOf('/'));
+  }
+}
+
+/**
+ * Parses and checks codebook text. Returns `ok: true` with the compiled codebook when no
+ * problem is at error severity (warnings are returned alongside), else `ok: false` with every
+ * problem found. Problems carry line and column (1-based) of the value they point at, and are
+ * ordered by position in the file. A UTF-8 byte-order mark is accepted.
+ *
+ * Stages: JSON syntax (`json-syntax`, `duplicate-key`); schema, zod and the shipped JSON Schema
+ * via ajv (unknown fields with a "did you mean" hint); meaning checks (see `checks/`). Meaning
+ * checks run only on a schema-valid codebook.
+ * Cost: linear in the text plus one CEL parse and type check per expression. Never throws.
+ */
+export function parseCodebook(text: string, file?: string): LoadResult {
+  const src = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+  const scan = scanJson(src);
+  if (scan.error) {
+    const { line, column, message } = scan.error;
+    return { ok: false, problems: [{ ...problem('json-syntax', '', `${message} (line ${line}, column ${column})`), line, column }] };
+  }
+  const data: unknown = JSON.parse(src);
+  const problems: CodebookProblem[] = scan.duplicateKeys.map((d) =>
+    problem('duplicate-key', d.pointer, `field "${d.pointer.slice(d.pointer.lastIndexOf('/') + 1)}" appears twice in the same object; only the last one would count`),
+  );
+  const zod = CodebookSchema.safeParse(data);
+  const ajvErrors = validateWithShippedSchema(data);
+  let result: LoadResult;
+  if (!zod.success) {
+    problems.push(...zodIssuesToProblems(zod.error.issues, data));
+    result = { ok: false, problems };
+  } else if (ajvErrors.length > 0) {
+    // The zod schema accepted what the shipped JSON Schema rejects: the file is stale or was
+    // edited by hand. Report it rather than let the editor and codeweir disagree silently.
+    problems.push(...ajvErrorsToProblems(ajvErrors, data));
+    result = { ok: false, problems };
+  } else {
+    const analysis = analyseCodebook(zod.data);
+    problems.push(...analysis.problems);
+    result = hasErrors(problems) ? { ok: false, problems } : { ok: true, codebook: buildCompiled(zod.data, analysis.expressions, file), problems };
+  }
+  const located: Array<Problem & { offset: number }> = result.problems.map((p) => {
+    const offset = offsetOf(scan.positions, p.path);
+    if (offset === undefined) return { ...p, offset: -1 };
+    return { ...p, ...lineColumn(src, offset), offset };
+  });
+  located.sort((a, b) => a.offset - b.offset);
+  const out = located.map(({ offset: _o, ...p }) => p);
+  return result.ok ? { ok: true, codebook: result.codebook, problems: out } : { ok: false, problems: out };
+}
+
+/**
+ * Reads a codebook file (UTF-8) and parses it with {@link parseCodebook}, recording `file` on
+ * the compiled codebook. Cost: one read plus parseCodebook.
+ * Throws CodeweirError CW_FILE_NOT_FOUND, CW_FILE_IS_DIRECTORY or CW_FILE_UNREADABLE (exit
+ * code 2) when the file cannot be read; an invalid codebook is not thrown but returned.
+ */
+export async function loadCodebook(path: string): Promise<LoadResult> {
+  let text: string;
+  try {
+    const st = await stat(path);
+    if (st.isDirectory()) throw new CodeweirError('CW_FILE_IS_DIRECTORY', `Codebook ${path} is a directory; name a codebook file.`, { file: path });
+    text = await readFile(path, 'utf8');
+  } catch (e) {
+    if (e instanceof CodeweirError) throw e;
+    const code = (e as NodeJS.ErrnoException).code;
+    if (code === 'ENOENT' || code === 'ENOTDIR') {
+      throw new CodeweirError('CW_FILE_NOT_FOUND', `Codebook ${path} does not exist; check the path.`, { file: path, cause: e });
+    }
+    if (code === 'EISDIR') throw new CodeweirError('CW_FILE_IS_DIRECTORY', `Codebook ${path} is a directory; name a codebook file.`, { file: path, cause: e });
+    throw new CodeweirError('CW_FILE_UNREADABLE', `Codebook ${path} cannot be read (${code ?? (e as Error).message}); check its permissions.`, { file: path, cause: e });
+  }
+  return parseCodebook(text, path);
+}
+
+/**
+ * Loads a codebook that must be valid: resolves to the compiled codebook (warnings dropped).
+ * Throws CodeweirError CW_CODEBOOK_INVALID (exit code 1) naming the file, the first error's
+ * JSON pointer, line and column, and its message; or the file errors of {@link loadCodebook}.
+ */
+export async function loadCodebookOrThrow(path: string): Promise<CompiledCodebook> {
+  const r = await loadCodebook(path);
+  if (r.ok) return r.codebook;
+  const first = r.problems.find((p) => p.severity === 'error') ?? r.problems[0]!;
+  throw new CodeweirError(
+    'CW_CODEBOOK_INVALID',
+    `Codebook ${path} is invalid at ${first.path || '/'}: ${first.message}; run codeweir lint ${path} for every problem.`,
+    { file: path, path: first.path, ...(first.line !== undefined ? { line: first.line, column: first.column } : {}) },
+    1,
+  );
+}
