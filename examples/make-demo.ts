@@ -5,7 +5,9 @@
  * - `demo-delivery.csv`: about 4,000 households, comma-delimited UTF-8, with planted faults;
  * - `demo-faults.json`: one entry per planted fault (`row` is the 1-based data row, header not
  *   counted; `item` is the column, or the rule id for `rule-failed`; `rule` is the finding rule
- *   a checker must report; `value` is the cell as delivered);
+ *   a checker must report; `value` is the cell as delivered). Three planted cells carry spaces
+ *   around the value (sex, age, water_src); a checker that trims them also reports one
+ *   item-level `surrounding-space` warning (row 0) for each of those items, which is not listed;
  * - `demo-delivery-semicolon.csv`: a few hundred clean households, `;`-delimited, decimal comma,
  *   CRLF line ends, windows-1252 encoded (remarks name the accented districts).
  *
@@ -15,6 +17,7 @@
 import { join, resolve, dirname } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { writeFilesAtomic, CodeweirError, isCodeweirError } from '../packages/core/src/index.ts';
+import type { FindingRule } from '../packages/check/src/types.ts';
 
 const HERE = dirname(fileURLToPath(import.meta.url));
 
@@ -29,19 +32,8 @@ export interface DemoOptions {
   seed?: number;
 }
 
-export type FaultRule =
-  | 'ragged-row'
-  | 'not-a-number'
-  | 'not-an-integer'
-  | 'not-a-code'
-  | 'unbinned-value'
-  | 'impossible'
-  | 'implausible'
-  | 'pattern-mismatch'
-  | 'duplicate-id'
-  | 'answered-when-skipped'
-  | 'blank-when-asked'
-  | 'rule-failed';
+/** The finding rule a checker must report for a planted fault (names from the check contract). */
+export type FaultRule = FindingRule;
 
 export interface PlantedFault {
   /** 1-based data row (the header is not counted). */
@@ -382,6 +374,7 @@ const FAULTS: FaultSpec[] = [
   cell('not-a-number', 'life_rating', 'six'),
   cell('not-a-number', 'weight', 'NA'),
   cell('not-a-number', 'dwelling_year', '1990s'),
+  cell('not-a-date', 'int_date', '14/03/2026'),
   cell('not-an-integer', 'age', '34.5', notCollege),
   cell('not-an-integer', 'dwelling_year', '1987.5'),
   cell('not-an-integer', 'life_rating', '7.5'),

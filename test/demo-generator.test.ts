@@ -75,7 +75,7 @@ describe('demo generator', () => {
     // Every fault kind the demo is meant to show is planted at least once.
     const kinds = new Set(faults.map((f) => f.rule));
     for (const rule of [
-      'ragged-row', 'not-a-number', 'not-an-integer', 'not-a-code', 'unbinned-value', 'impossible', 'implausible',
+      'ragged-row', 'not-a-number', 'not-an-integer', 'not-a-date', 'not-a-code', 'unbinned-value', 'impossible', 'implausible',
       'pattern-mismatch', 'duplicate-id', 'answered-when-skipped', 'blank-when-asked', 'rule-failed',
     ]) {
       expect(kinds.has(rule as PlantedFault['rule']), rule).toBe(true);
