@@ -124,6 +124,10 @@ export interface PairCategorical {
   warnings: string[];
   spearman?: number | null;
   gamma?: number | null;
+  /** Present when the pair was computed on listwise-complete rows (valid on every requested item). */
+  listwise?: true;
+  /** Conventions of the statistics given (continuity correction, how empty rows are handled...). */
+  conventions?: Record<string, string>;
 }
 
 export interface PairContinuous {
@@ -139,6 +143,12 @@ export interface PairContinuous {
   notes: string[];
   /** A sample of points for the scatter plot (all when small). */
   sample?: Array<[number, number]>;
+  /** 1-based data rows of `sample`, same order. */
+  sampleRows?: number[];
+  /** Largest squared Mahalanobis distance among the pairs (null when undefined). */
+  maxMahalanobis?: number | null;
+  listwise?: true;
+  conventions?: Record<string, string>;
 }
 
 export interface PairMixed {
@@ -148,6 +158,10 @@ export interface PairMixed {
   n: number;
   groups: GroupSummary[];
   etaSquared: number | null;
+  /** True when the pair was requested continuous-first: x is always the categorical item. */
+  swapped?: boolean;
+  listwise?: true;
+  conventions?: Record<string, string>;
 }
 
 export type PairDescription = PairCategorical | PairContinuous | PairMixed;
