@@ -1,0 +1,94 @@
+import type { CheckResult } from '@codeweir/check';
+import type { DescribeResult } from '@codeweir/describe';
+import type { CompiledCodebook, CompiledItem } from '@codeweir/codebook';
+import { escapeHtml as esc } from './escape.ts';
+import type { ChartDef } from './vega.ts';
+
+/** What {@link renderReport} reads. */
+export interface ReportInput {
+  check: CheckResult;
+  describe: DescribeResult;
+  codebook: CompiledCodebook;
+  /** The delivery's path or name, as the user gave it. */
+  file?: string;
+  /** When the report was made (ISO 8601); the current time when omitted. */
+  generatedAt?: string;
+}
+
+/** Knobs of the report; the defaults keep a report of a large delivery to a few megabytes. */
+export interface ReportOptions {
+  /** Findings listed per rule (the counts stay exact). Default 5. */
+  findingsPerRule?: number;
+  /** Bar order of nominal items: `code` (codebook order, default) or `frequency` (most frequent first). */
+  nominalOrder?: 'code' | 'frequency';
+  /** Most points drawn in a scatter plot. Default 800. */
+  maxScatterPoints?: number;
+}
+
+export interface Ctx {
+  input: ReportInput;
+  options: Required<ReportOptions>;
+  charts: ChartDef[];
+  /** Queues a chart and returns the placeholder that the rendered SVG replaces. */
+  chart(def: Omit<ChartDef, 'id'>): string;
+  item(name: string): CompiledItem | undefined;
+}
+
+export function createCtx(input: ReportInput, options: ReportOptions = {}): Ctx {
+  const charts: ChartDef[] = [];
+  return {
+    input,
+    options: {
+      findingsPerRule: options.findingsPerRule ?? 5,
+      nominalOrder: options.nominalOrder ?? 'code',
+      maxScatterPoints: options.maxScatterPoints ?? 800,
+    },
+    charts,
+    chart(def) {
+      const id = `chart-${charts.length + 1}`;
+      charts.push({ ...def, id });
+      return `<!--chart:${id}-->`;
+    },
+    item: (name) => input.codebook.byName.get(name),
+  };
+}
+
+/** `name` in code style followed by its label, both escaped. */
+export function itemTitle(ctx: Ctx, name: string): string {
+  const label = ctx.item(name)?.label ?? ctx.input.describe.items[name]?.label;
+  return label ? `<code>${esc(name)}</code> ${esc(label)}` : `<code>${esc(name)}</code>`;
+}
+
+/** Plain-text name for chart titles and descriptions (escaped later, where it is written). */
+export function itemText(ctx: Ctx, name: string): string {
+  const label = ctx.item(name)?.label ?? ctx.input.describe.items[name]?.label;
+  return label ? `${name} (${label})` : name;
+}
+
+/** Text of a cell value inside a table: every value is escaped. */
+export interface Table {
+  head: string[];
+  /** Cells already as HTML (callers escape text with escapeHtml). */
+  rows: string[][];
+  /** Indices of numeric columns (right-aligned). */
+  numeric?: number[];
+  caption?: string;
+  className?: string;
+}
+
+/** An HTML table from escaped header text and cell HTML. */
+export function table(t: Table): string {
+  const num = new Set(t.numeric ?? []);
+  const cls = (i: number) => (num.has(i) ? ' class="num"' : '');
+  const head = t.head.map((h, i) => `<th scope="col"${cls(i)}>${esc(h)}</th>`).join('');
+  const body = t.rows.map((r) => `<tr>${r.map((c, i) => `<td${cls(i)}>${c}</td>`).join('')}</tr>`).join('');
+  const caption = t.caption ? `<caption class="note">${esc(t.caption)}</caption>` : '';
+  return `<div class="scroll"><table${t.className ? ` class="${t.className}"` : ''}>${caption}<thead><tr>${head}</tr></thead><tbody>${body}</tbody></table></div>`;
+}
+
+/** A chart with its caption and, when given, its table alternative in a details element. */
+export function figure(ctx: Ctx, def: Omit<ChartDef, 'id'>, caption: string, alt?: string): string {
+  const placeholder = ctx.chart(def);
+  const details = alt ? `<details class="alt"><summary>Table of this chart</summary>${alt}</details>` : '';
+  return `<figure class="chart">${placeholder}<figcaption>${esc(caption)}</figcaption>${details}</figure>`;
+}

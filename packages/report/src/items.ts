@@ -1,0 +1,197 @@
+/** One card per item: level, label, the chart its level calls for, statistics, withheld, conventions. */
+import type { Frequency, ItemDescription, OrdinalPosition } from '@codeweir/describe';
+import type { CompiledItem } from '@codeweir/codebook';
+import { escapeHtml as esc } from './escape.ts';
+import { formatNumber as num, formatPercent as pct } from './format.ts';
+import { type Ctx, table, figure, itemText } from './context.ts';
+import { barChart, boxPlot, histogram, type Bar } from './charts.ts';
+import { histogramSorted } from '@codeweir/stats';
+import { boxFromValues, sortedValues } from './data.ts';
+
+/** Display keys for categories: the label, with the code added where labels repeat (vega groups by key). */
+export function categoryKeys(positions: ReadonlyArray<Pick<OrdinalPosition, 'code' | 'label'>>): string[] {
+  const seen = new Map<string, number>();
+  for (const p of positions) seen.set(p.label, (seen.get(p.label) ?? 0) + 1);
+  return positions.map((p) => (p.label === '' || (seen.get(p.label) ?? 0) > 1 ? `${p.label} [${String(p.code)}]` : p.label));
+}
+
+export function itemsSection(ctx: Ctx): string {
+  const items = ctx.input.describe.items;
+  const ordered = ctx.input.codebook.items.map((i) => i.name).filter((n) => items[n] !== undefined);
+  for (const n of Object.keys(items)) if (!ordered.includes(n)) ordered.push(n);
+  const cards = ordered.map((n, k) => itemCard(ctx, n, items[n]!, k)).join('');
+  return `<section id="items"><h2 class="section-title">Items</h2><div class="cards">${cards}</div></section>`;
+}
+
+function itemCard(ctx: Ctx, name: string, d: ItemDescription, k: number): string {
+  const item = ctx.item(name);
+  const tags = [
+    `<span class="tag level">${esc(d.level)}</span>`,
+    item ? `<span class="tag">${esc(item.type)}</span>` : '',
+    item && item.role !== 'item' ? `<span class="tag">${esc(item.role)}</span>` : '',
+    d.unit ? `<span class="tag">unit: ${esc(d.unit)}</span>` : '',
+    d.binned ? '<span class="tag">binned counts</span>' : '',
+  ].join('');
+  const question = item?.text ? `<p class="question">${esc(item.text)}</p>` : '';
+  const charts = d.level === 'nominal' || d.level === 'ordinal' ? categoricalChart(ctx, name, d, item) : d.level === 'interval' || d.level === 'ratio' ? continuousCharts(ctx, name, d) : '';
+  const freq = d.frequencies && d.frequencies.length > 0 ? `<h4>Frequencies</h4>${frequencyTable(d, orderedFrequencies(ctx, d, item))}` : '';
+  return `<article class="card" id="item-${k + 1}" aria-labelledby="item-${k + 1}-h">
+<header><h3 id="item-${k + 1}-h"><code>${esc(name)}</code></h3><span class="label">${esc(d.label)}</span><span class="tags">${tags}</span></header>
+${question}${charts}<div class="stats"><div><h4>Statistics</h4>${statisticsTable(ctx, d)}</div><div>${withheldList(d)}${conventionsList(ctx, d)}</div></div>${
+    d.outlierNote ? `<p class="note">${esc(d.outlierNote)}</p>` : ''
+  }${freq}</article>`;
+}
+
+/** Frequencies in the order the chart and table use: scale order (ordinal), code or frequency order (nominal). */
+function orderedFrequencies(ctx: Ctx, d: ItemDescription, item: CompiledItem | undefined): Frequency[] {
+  const freqs = [...(d.frequencies ?? [])];
+  const pos = (f: Frequency) => item?.codeByText.get(String(f.code)) ?? Number.MAX_SAFE_INTEGER;
+  if (d.level === 'nominal' && ctx.options.nominalOrder === 'frequency') freqs.sort((a, b) => b.count - a.count || pos(a) - pos(b));
+  else freqs.sort((a, b) => pos(a) - pos(b));
+  return freqs;
+}
+
+function categoricalChart(ctx: Ctx, name: string, d: ItemDescription, item: CompiledItem | undefined): string {
+  const freqs = orderedFrequencies(ctx, d, item);
+  if (freqs.length === 0) return '';
+  const keys = categoryKeys(freqs);
+  const bars: Bar[] = freqs.map((f, i) => ({ key: keys[i]!, count: f.count, percent: f.percent }));
+  const order =
+    d.level === 'ordinal' ? 'in scale order (ordinal: the codebook order of the codes)' : ctx.options.nominalOrder === 'frequency' ? 'by frequency, most frequent first' : 'in code order (the codebook order)';
+  const what = itemText(ctx, name);
+  const title = `${what}: valid cells by category`;
+  const top = [...bars].sort((a, b) => b.count - a.count)[0]!;
+  const description = `Bar chart of ${bars.length} categories of ${what}, ${order}, over ${d.n} valid cells; the largest is ${top.key} with ${top.count} (${top.percent.toFixed(1)}%).`;
+  return figure(ctx, barChart(title, description, bars), `Bars ${order}; separate bars because the categories are distinct. Numbers at the bar ends are percent of valid cells. The frequency table below is this chart's table.`);
+}
+
+function continuousCharts(ctx: Ctx, name: string, d: ItemDescription): string {
+  const what = itemText(ctx, name);
+  const axis = d.unit ? `${name} (${d.unit})` : name;
+  const sorted = sortedValues(ctx.input.check.store, name);
+  const out: string[] = [];
+  const hist = d.histogram ?? (sorted && sorted.length > 0 ? histogramSorted(sorted) : undefined);
+  if (hist && hist.counts.length > 0) {
+    const width = hist.edges.length > 1 ? hist.edges[1]! - hist.edges[0]! : 0;
+    const title = `${what}: distribution`;
+    const description = `Histogram of ${d.n} valid values of ${what} in ${hist.counts.length} bins (${hist.rule}) from ${num(hist.edges[0])} to ${num(hist.edges.at(-1))}.`;
+    const alt = table({
+      head: ['from', 'to', 'count'],
+      numeric: [0, 1, 2],
+      rows: hist.counts.map((c, i) => [num(hist.edges[i]), num(hist.edges[i + 1]), num(c)]),
+    });
+    out.push(figure(ctx, histogram(title, description, hist.edges, hist.counts, axis), `Bins: ${hist.rule}, ${hist.counts.length} bins of width ${num(width)}; each bin holds values from its lower edge up to (not including) its upper edge, the last bin includes its upper edge.`, alt));
+  }
+  if (d.q1 !== undefined && d.median !== undefined && d.q3 !== undefined) {
+    const stats = { q1: d.q1, median: d.median, q3: d.q3, min: d.min, max: d.max, fences: d.fences, outliers: d.outliers };
+    const { box, points, exact } = boxFromValues(name, stats, sorted);
+    const title = `${what}: box plot`;
+    const nOut = points.filter((p) => p.kind === 'outlier').length;
+    const nExt = points.length - nOut;
+    const description = `Box plot of ${what}: median ${num(box.median)}, quartiles ${num(box.q1)} and ${num(box.q3)}, whiskers from ${num(box.low)} to ${num(box.high)}; ${nOut} distinct outlier values and ${nExt} distinct extreme values drawn.`;
+    const alt = table({
+      head: ['whisker low', 'Q1', 'median', 'Q3', 'whisker high', 'outliers', 'extremes'],
+      numeric: [0, 1, 2, 3, 4, 5, 6],
+      rows: [[num(box.low), num(box.q1), num(box.median), num(box.q3), num(box.high), num(d.outliers), num(d.extremes)]],
+    });
+    const whiskers = exact ? 'whiskers to the most extreme values inside the inner fences' : 'whiskers drawn to the inner fences (the values themselves were not retained)';
+    const caption = `Box from Q1 to Q3 with a line at the median (quantile type ${ctx.input.describe.quantileType}); ${whiskers}; open circles: outliers beyond 1.5 x IQR (Tukey fences); filled diamonds: extremes beyond 3 x IQR.`;
+    out.push(figure(ctx, boxPlot(title, description, [{ ...box, key: name }], points, axis), caption, alt));
+  }
+  return out.join('');
+}
+
+const positionText = (p: OrdinalPosition | undefined) => (p ? `${esc(p.label)} <span class="note">[${esc(p.code)}]</span>` : undefined);
+
+function statisticsTable(ctx: Ctx, d: ItemDescription): string {
+  const rows: Array<[string, string | undefined]> = [];
+  const add = (label: string, value: string | undefined) => rows.push([label, value]);
+  const missing = Object.values(d.missing).reduce<number>((a, b) => a + (b ?? 0), 0);
+  add('valid (n)', num(d.n));
+  add('missing', num(missing));
+  add('invalid', num(d.invalid));
+  if (d.mode && d.mode.length > 0) add(d.mode.length > 1 ? 'modes' : 'mode', d.mode.map((m) => esc(labelOfCode(d, m))).join(', '));
+  if (d.medianCode) {
+    add('median', positionText(d.medianCode));
+    add('Q1', positionText(d.q1Code));
+    add('Q3', positionText(d.q3Code));
+    if (d.iqr !== undefined) add('IQR (scale steps)', num(d.iqr));
+  } else {
+    if (d.median !== undefined) add('median', num(d.median));
+    if (d.q1 !== undefined) add('Q1', num(d.q1));
+    if (d.q3 !== undefined) add('Q3', num(d.q3));
+    if (d.iqr !== undefined) add('IQR', num(d.iqr));
+  }
+  if (d.groupedMedian !== undefined) add('grouped median', num(d.groupedMedian));
+  for (const [p, v] of Object.entries(d.percentiles ?? {})) add(`percentile ${p}`, num(v));
+  const simple: Array<[keyof ItemDescription, string]> = [
+    ['mean', 'mean'],
+    ['sd', 'standard deviation'],
+    ['min', 'minimum'],
+    ['max', 'maximum'],
+    ['range', 'range'],
+    ['skewness', 'skewness'],
+    ['kurtosis', 'excess kurtosis'],
+    ['cv', 'coefficient of variation'],
+    ['geometricMean', 'geometric mean'],
+  ];
+  for (const [key, label] of simple) if (typeof d[key] === 'number') add(label, num(d[key] as number));
+  if (d.fences) {
+    add('inner fences (1.5 x IQR)', `${num(d.fences.lower)} to ${num(d.fences.upper)}`);
+    add('outer fences (3 x IQR)', `${num(d.fences.lowerExtreme)} to ${num(d.fences.upperExtreme)}`);
+  }
+  if (d.outliers !== undefined) add('outliers', num(d.outliers));
+  if (d.extremes !== undefined) add('extremes', num(d.extremes));
+  if (d.outlierValues) {
+    if (d.outlierValues.low.length > 0) add('lowest beyond the fences', d.outlierValues.low.map(num).join(', '));
+    if (d.outlierValues.high.length > 0) add('highest beyond the fences', d.outlierValues.high.map(num).join(', '));
+  }
+  if (d.weighted) {
+    const w = d.weighted;
+    const weight = ctx.input.describe.weight;
+    add(`sum of weights${weight ? ` (${esc(weight)})` : ''}`, num(w.sumOfWeights));
+    add('rows without a valid weight', num(w.excluded));
+    if (w.mean !== undefined) add('weighted mean', num(w.mean));
+    if (w.sd !== undefined) add('weighted standard deviation', num(w.sd));
+    if (w.median !== undefined) add('weighted median', num(w.median));
+    if (w.q1 !== undefined) add('weighted Q1', num(w.q1));
+    if (w.q3 !== undefined) add('weighted Q3', num(w.q3));
+  }
+  return table({ head: ['statistic', 'value'], numeric: [1], rows: rows.filter((r) => r[1] !== undefined).map(([l, v]) => [esc(l), v!]) });
+}
+
+function labelOfCode(d: ItemDescription, code: number | string): string {
+  const f = d.frequencies?.find((x) => x.code === code);
+  return f ? `${f.label} [${String(code)}]` : String(code);
+}
+
+function frequencyTable(d: ItemDescription, freqs: readonly Frequency[]): string {
+  const cum = freqs.some((f) => f.cumulativePercent !== undefined);
+  const weighted = freqs.some((f) => f.weightedPercent !== undefined);
+  const head = ['code', 'label', 'count', 'percent', ...(cum ? ['cumulative'] : []), ...(weighted ? ['weighted count', 'weighted percent'] : [])];
+  const rows = freqs.map((f) => [
+    `<code>${esc(f.code)}</code>`,
+    esc(f.label),
+    num(f.count),
+    pct(f.percent),
+    ...(cum ? [pct(f.cumulativePercent)] : []),
+    ...(weighted ? [num(f.weightedCount), pct(f.weightedPercent)] : []),
+  ]);
+  return table({ head, rows, numeric: head.map((_, i) => i).filter((i) => i >= 2), caption: `Percent of ${d.n} valid cells; missing codes are not categories.` });
+}
+
+function withheldList(d: ItemDescription): string {
+  const entries = Object.entries(d.withheld);
+  if (entries.length === 0) return '';
+  return `<h4>Withheld</h4><ul class="plain withheld">${entries.map(([s, why]) => `<li><strong>${esc(s)}</strong>: ${esc(why)}</li>`).join('')}</ul>`;
+}
+
+function conventionsList(ctx: Ctx, d: ItemDescription): string {
+  const lines: Array<[string, string]> = [];
+  const hasQuantiles = d.median !== undefined || d.q1 !== undefined || d.medianCode !== undefined;
+  if (hasQuantiles) lines.push(['quantiles', `Hyndman-Fan type ${ctx.input.describe.quantileType}`]);
+  const own = d.conventions ?? (d.level === 'interval' || d.level === 'ratio' ? ctx.input.describe.conventions : {});
+  for (const [k, v] of Object.entries(own)) if (!(hasQuantiles && k === 'quantiles')) lines.push([k, v]);
+  if (lines.length === 0) return '';
+  return `<h4>Conventions</h4><ul class="plain conventions">${lines.map(([k, v]) => `<li><strong>${esc(k)}</strong>: ${esc(v)}</li>`).join('')}</ul>`;
+}

@@ -1,0 +1,98 @@
+/** Missingness: counts by kind per item, and items x groups heat maps of percent missing. */
+import type { GroupItemTally, ItemTally } from '@codeweir/check';
+import type { MissingTally } from '@codeweir/codebook';
+import { MISSING_KINDS } from '@codeweir/codebook';
+import { escapeHtml as esc } from './escape.ts';
+import { formatNumber as num, formatPercent as pct } from './format.ts';
+import { type Ctx, table, figure, itemTitle } from './context.ts';
+import { missingHeatmap, type HeatCell } from './charts.ts';
+
+const KINDS: readonly MissingTally[] = ['blank', ...MISSING_KINDS];
+
+function missingTotal(t: Pick<GroupItemTally, 'missing'>): number {
+  let s = 0;
+  for (const v of Object.values(t.missing)) s += v ?? 0;
+  return s;
+}
+
+function cellsOf(t: GroupItemTally | ItemTally): number {
+  return t.valid + t.invalid + missingTotal(t);
+}
+
+/** Percent (0 to 100) of an item's cells that are missing of any kind. */
+export function percentMissing(t: GroupItemTally | ItemTally): number {
+  const cells = cellsOf(t);
+  return cells === 0 ? 0 : (100 * missingTotal(t)) / cells;
+}
+
+export function missingnessSection(ctx: Ctx): string {
+  const { summary } = ctx.input.check;
+  const names = ctx.input.codebook.items.map((i) => i.name).filter((n) => summary.items[n] !== undefined);
+  const kinds = KINDS.filter((k) => names.some((n) => (summary.items[n]!.missing[k] ?? 0) > 0));
+  const byKind = table({
+    head: ['item', 'valid', 'invalid', ...kinds, 'missing', '% missing'],
+    numeric: [1, 2, ...kinds.map((_, i) => 3 + i), 3 + kinds.length, 4 + kinds.length],
+    rows: names.map((n) => {
+      const t = summary.items[n]!;
+      return [itemTitle(ctx, n), num(t.valid), num(t.invalid), ...kinds.map((k) => num(t.missing[k] ?? 0)), num(missingTotal(t)), pct(percentMissing(t))];
+    }),
+  });
+  const heatmaps = Object.entries(summary.groups).map(([group, byCode]) => groupHeatmap(ctx, group, byCode, names)).join('');
+  const records = recordMissing(ctx);
+  return `<section id="missingness" class="block"><h2>Missingness</h2>
+<p class="note">Blank is an empty cell; the other kinds are the codebook's declared missing codes. Invalid cells are neither valid nor missing.</p>
+${byKind}${heatmaps}${records}</section>`;
+}
+
+function groupHeatmap(ctx: Ctx, group: string, byCode: Record<string, Record<string, GroupItemTally>>, names: readonly string[]): string {
+  const groupItem = ctx.item(group);
+  const summary = ctx.input.check.summary;
+  const codes = Object.keys(byCode);
+  const order = (c: string) => groupItem?.codeByText.get(c) ?? Number.MAX_SAFE_INTEGER;
+  codes.sort((a, b) => order(a) - order(b) || a.localeCompare(b, 'en', { numeric: true }));
+  const labelOf = (c: string) => {
+    const i = groupItem?.codeByText.get(c);
+    return i === undefined ? c : `${groupItem!.codes[i]!.label} [${c}]`;
+  };
+  const allLabel = 'all rows';
+  const columns = [allLabel, ...codes.map(labelOf)];
+  const rows = names.filter((n) => n !== group);
+  const cells: HeatCell[] = [];
+  for (const n of rows) {
+    const t = summary.items[n]!;
+    cells.push({ row: n, column: allLabel, percent: percentMissing(t), missing: missingTotal(t), cells: cellsOf(t) });
+    for (const c of codes) {
+      const g = byCode[c]![n];
+      if (g) cells.push({ row: n, column: labelOf(c), percent: percentMissing(g), missing: missingTotal(g), cells: cellsOf(g) });
+    }
+  }
+  const groupText = groupItem ? `${group} (${groupItem.label})` : group;
+  const title = `Percent missing by ${groupText}`;
+  const description = `Heat map of the percent of cells missing (any kind) for ${rows.length} items (rows) in ${codes.length} groups of ${groupText} and in all rows (columns); darker is more missing.`;
+  const cellOf = new Map(cells.map((c) => [`${c.row}\u0000${c.column}`, c]));
+  const alt = table({
+    head: ['item', ...columns],
+    numeric: columns.map((_, i) => i + 1),
+    rows: rows.map((n) => [
+      `<code>${esc(n)}</code>`,
+      ...columns.map((col) => {
+        const c = cellOf.get(`${n}\u0000${col}`);
+        return c ? `${pct(c.percent)} <span class="note">(${num(c.missing)}/${num(c.cells)})</span>` : '-';
+      }),
+    ]),
+  });
+  return `<h3>By ${itemTitle(ctx, group)}</h3>${figure(
+    ctx,
+    missingHeatmap(title, description, rows, columns, cells),
+    'Cells show percent missing; hover a cell for the counts. The shading runs from 0 to the largest percent (at least 10).',
+    alt,
+  )}`;
+}
+
+function recordMissing(ctx: Ctx): string {
+  const rm = ctx.input.check.summary.recordMissing;
+  if (!rm || rm.length === 0) return '';
+  const total = rm.reduce((a, b) => a + b, 0);
+  const rows = rm.map((count, k) => [num(k), num(count), pct(total === 0 ? 0 : (100 * count) / total)]).filter((_, k) => rm[k]! > 0);
+  return `<h3>Records by number of items missing</h3>${table({ head: ['items missing', 'records', '% of records'], numeric: [0, 1, 2], rows })}`;
+}
