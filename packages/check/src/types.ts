@@ -12,6 +12,7 @@ export type FindingRule =
   | 'ragged-row'
   | 'not-a-number'
   | 'not-an-integer'
+  | 'not-a-date'
   | 'not-a-code'
   | 'unbinned-value'
   | 'unbinned-column'
@@ -39,6 +40,12 @@ export interface Finding {
   severity: FindingSeverity;
   message: string;
   suggestion?: string;
+  /**
+   * Group item name -> group code text of the finding's row (`(missing)` / `(invalid)` when the
+   * row's group cell is not valid), so a findings log can be split by field team. Absent on
+   * file- and item-level findings (row 0).
+   */
+  groups?: Record<string, string>;
 }
 
 export interface ItemTally {
@@ -48,6 +55,15 @@ export interface ItemTally {
   missing: Partial<Record<MissingTally, number>>;
   /** Counts of findings by rule for this item. */
   findings: Partial<Record<FindingRule, number>>;
+  /** True when the item has no column in the delivery: then valid, invalid and missing are all 0. */
+  absent?: boolean;
+  /** Cells that had spaces around the value (trimmed before checking). */
+  trimmed?: number;
+  /**
+   * Routing outcome on the item's rows (items with `askedWhen` only): asked (condition true),
+   * skipped (false), undetermined (a variable of the condition was missing or invalid).
+   */
+  routing?: { asked: number; skipped: number; undetermined: number };
 }
 
 export interface GroupItemTally {
@@ -76,6 +92,10 @@ export interface CheckSummary {
   /** records[k] = number of records with exactly k items missing (any kind). */
   recordMissing?: number[];
   accepted?: boolean;
+  /** Hyndman-Fan type of the quartiles behind the outlier and extreme fences. */
+  quantileType?: number;
+  /** Tukey fences per interval or ratio item with at least one valid value. */
+  fences?: Record<string, { q1: number; q3: number; lower: number; upper: number; lowerExtreme: number; upperExtreme: number }>;
 }
 
 /**

@@ -1,0 +1,505 @@
+/**
+ * The checking pass as a mergeable partial state. `createPass` compiles the codebook against a
+ * header; `push` classifies batches of rows (the hot path); `finish` hands back a plain,
+ * structured-cloneable {@link PartialResult}. Parts of one delivery (for example byte ranges
+ * read by worker threads) are combined by `mergePartials` in row order, and `finalize` turns a
+ * partial into the CheckResult: quartiles, fences and outliers from the retained values,
+ * header and item-level findings, findings sorted and capped per rule.
+ */
+import type { CompiledCodebook, CompiledExpression } from '@codeweir/codebook';
+import type { RowBatch } from '@codeweir/read';
+import { compileClassifiers, KINDS, MISSING, VALID, type ItemClassifier } from './classify.ts';
+import { mapHeader, type HeaderMap } from './header.ts';
+import { normalizeCheckOptions, type CheckOptions, type CheckOptionsInput } from './options.ts';
+import { rules, RULE_NUMBER, RULE_ORDER } from './rules/index.ts';
+import { Grow } from './grow.ts';
+import { NumberFirsts, TextFirsts, type Firsts, type UniqueEntries } from './unique.ts';
+import type { Finding, FindingSeverity } from './types.ts';
+
+/** Tally slots per item: valid, invalid, then one per missing kind (blank first). */
+export const SLOTS = 2 + KINDS.length;
+/** Severities by number, for the severity counters. */
+export const SEVERITIES: readonly FindingSeverity[] = ['error', 'warning', 'info'];
+const NR = RULE_ORDER.length;
+const R = RULE_NUMBER;
+const ST_VALID = 0;
+const ST_MISSING = 1;
+const ST_INVALID = 2;
+/** Group key of a row whose group cell is missing (or whose group column is absent). */
+export const GROUP_MISSING = '(missing)';
+/** Group key of a row whose group cell is invalid. */
+export const GROUP_INVALID = '(invalid)';
+/** Longest value text kept in a finding; longer values are cut (the message says why). */
+const MAX_VALUE_CHARS = 1000;
+
+/** Per-row group keys and per-key tallies of one group item. */
+export interface GroupPartial {
+  item: string;
+  keys: string[];
+  /** One Float64Array(items x SLOTS) per key, same order as `keys`. */
+  tallies: Float64Array[];
+  /** Key index of each row. */
+  rowKeys: Uint32Array;
+}
+
+/** Id text per row, for findings made after the pass (outliers, duplicates across parts). */
+export interface IdColumn {
+  /** Numeric id items: the parsed id, NaN where it was not valid. */
+  numbers?: Float64Array;
+  /** Text id items: the trimmed cell. */
+  texts?: string[];
+  /** Numeric id items: trimmed cell text of rows whose id was not valid, by 1-based row. */
+  odd: Map<number, string>;
+}
+
+/**
+ * The state of a pass over some rows, plain data only. Row numbers in `findings`, `unique`
+ * and `ids.odd` are 1-based within the part; {@link mergePartials} shifts them. `codebook` is
+ * the one field that is not structured-cloneable: a worker sends {@link detachPartial}'s form
+ * and the receiver puts the codebook back with {@link attachPartial}.
+ */
+export interface PartialResult {
+  codebook: CompiledCodebook;
+  options: CheckOptions;
+  header: HeaderMap;
+  file?: string;
+  rows: number;
+  /** items x SLOTS. */
+  tallies: Float64Array;
+  /** items x rules: row-level findings by item and rule. */
+  findingCounts: Float64Array;
+  /** Row-level findings by rule. */
+  ruleTotals: Float64Array;
+  /** Row-level findings by severity number ({@link SEVERITIES}). */
+  severityTotals: Float64Array;
+  /** items x 3: asked, skipped, undetermined. */
+  routing: Float64Array;
+  /** codebook rules x 4: passed, failed, undetermined, skipped. */
+  rules: Float64Array;
+  trimmed: Float64Array;
+  unbinned: Float64Array;
+  /** recordMissing[k]: rows with exactly k present items missing. */
+  recordMissing: Float64Array;
+  groups: GroupPartial[];
+  /** By item index: retained values (coded: 1 + code index; numeric: value or NaN), or null. */
+  columns: Array<Float64Array | Uint16Array | null>;
+  ids: IdColumn | null;
+  /** By item index: first occurrences of each value of a unique item, or null. */
+  unique: Array<UniqueEntries | null>;
+  /** Row-level findings, in row order, at most maxFindingsPerRule per rule. */
+  findings: Finding[];
+}
+
+/** A pass in progress. */
+export interface Pass {
+  push(batch: RowBatch): void;
+  finish(): PartialResult;
+}
+
+interface Routed {
+  item: number;
+  expr: CompiledExpression;
+  vars: number[];
+}
+
+interface RuleSlot {
+  index: number;
+  id: string;
+  test: CompiledExpression;
+  when?: CompiledExpression;
+  severity: number;
+  message: string;
+  testVars: number[];
+  whenVars: number[];
+}
+
+function varIndices(codebook: CompiledCodebook, e: CompiledExpression): number[] {
+  if (e.variableIndices && e.variableIndices.length === e.variables.length) return [...e.variableIndices];
+  return e.variables.map((v) => codebook.byName.get(v)?.index ?? -1);
+}
+
+function cutValue(v: string): string {
+  return v.length > MAX_VALUE_CHARS ? `${v.slice(0, MAX_VALUE_CHARS)}...` : v;
+}
+
+/**
+ * Starts a pass of `codebook` over rows laid out as `header`.
+ *
+ * Convention: every cell is classified once (see compileClassifiers); routing (`askedWhen`)
+ * and cross-item rules are evaluated only on rows where every variable they read is valid
+ * (otherwise undetermined and counted), and read the cell-level classification, so a routing
+ * finding on one item does not change how another item's routing is decided. A valid answer
+ * where routing says skip is `answered-when-skipped` and the cell counts as invalid; blank or a
+ * not-applicable code there is correct; another declared missing kind (refused, dont-know...)
+ * there is accepted as missing of that kind without a finding, since it does not pretend to be
+ * an answer. A blank where routing says ask is `blank-when-asked` (warning; still missing,
+ * blank). Duplicate values of a unique item are findings but stay valid values. Ragged rows:
+ * the fields present are checked; cells past the row's end count as invalid (the ragged-row
+ * finding explains them); extra fields are ignored.
+ * Cost: O(items + codes) to set up; push is O(rows x items) with no allocation per cell.
+ * Throws CodeweirError CW_USAGE for bad options.
+ */
+export function createPass(codebook: CompiledCodebook, header: readonly string[], rawOptions: CheckOptionsInput | CheckOptions = {}): Pass {
+  const options = normalizeCheckOptions(rawOptions as CheckOptionsInput);
+  const hmap = mapHeader(codebook, header);
+  const { out, items: cls } = compileClassifiers(codebook, options);
+  const nItems = codebook.items.length;
+  const headerLen = header.length;
+  const cap = options.maxFindingsPerRule;
+
+  const present: number[] = [];
+  for (let i = 0; i < nItems; i++) if (hmap.positions[i]! >= 0) present.push(i);
+  const presentIdx = Int32Array.from(present);
+  const presentPos = Int32Array.from(present, (i) => hmap.positions[i]!);
+  const nPresent = presentIdx.length;
+  const absent = new Uint8Array(nItems);
+  for (let i = 0; i < nItems; i++) absent[i] = hmap.positions[i]! < 0 ? 1 : 0;
+
+  // Expressions.
+  const routed: Routed[] = [];
+  for (const item of codebook.items) {
+    if (item.askedWhen && !absent[item.index]) routed.push({ item: item.index, expr: item.askedWhen, vars: varIndices(codebook, item.askedWhen) });
+  }
+  const ruleSlots: RuleSlot[] = codebook.rules.map((r, index) => ({
+    index,
+    id: r.id,
+    test: r.test,
+    when: r.when,
+    severity: r.severity === 'warning' ? 1 : 0,
+    message: r.message,
+    testVars: varIndices(codebook, r.test),
+    whenVars: r.when ? varIndices(codebook, r.when) : [],
+  }));
+  const needVal = new Uint8Array(nItems);
+  const vars: Record<string, unknown> = {};
+  for (const x of [...routed.flatMap((r) => r.vars), ...ruleSlots.flatMap((r) => [...r.testVars, ...r.whenVars])]) {
+    if (x >= 0) {
+      needVal[x] = 1;
+      vars[codebook.items[x]!.name] = null;
+    }
+  }
+  const varNames = codebook.items.map((it) => it.name);
+
+  // Per-row scratch.
+  const state = new Uint8Array(nItems);
+  const kind = new Uint8Array(nItems);
+  const codeIdx = new Int32Array(nItems);
+  const num = new Float64Array(nItems);
+  const text: string[] = new Array(nItems).fill('');
+  const cellOf: string[] = new Array(nItems).fill('');
+  const val: unknown[] = new Array(nItems).fill(null);
+  const skipInvalid: number[] = [];
+
+  // Accumulators.
+  const tallies = new Float64Array(nItems * SLOTS);
+  const findingCounts = new Float64Array(nItems * NR);
+  const ruleTotals = new Float64Array(NR);
+  const severityTotals = new Float64Array(SEVERITIES.length);
+  const kept = new Int32Array(NR);
+  const routing = new Float64Array(nItems * 3);
+  const ruleCounts = new Float64Array(ruleSlots.length * 4);
+  const trimmed = new Float64Array(nItems);
+  const unbinned = new Float64Array(nItems);
+  const recordMissing = new Float64Array(nItems + 1);
+  const findings: Finding[] = [];
+  const pending: Finding[] = [];
+
+  const columns: Array<Grow<Float64Array> | Grow<Uint16Array> | null> = cls.map((c) =>
+    c.retained && !absent[c.item.index] ? (c.shape === 'coded' ? new Grow(Uint16Array) : new Grow(Float64Array)) : null,
+  );
+  const coded = Uint8Array.from(cls, (c) => (c.shape === 'coded' ? 1 : 0));
+  const isText = Uint8Array.from(cls, (c) => (c.shape === 'text' ? 1 : 0));
+
+  const idItem = codebook.idItem && !absent[codebook.idItem.index] ? codebook.idItem : undefined;
+  const idIndex = idItem ? idItem.index : -1;
+  const idNumeric = idItem !== undefined && cls[idIndex]!.shape !== 'text' && !(cls[idIndex]!.shape === 'coded' && idItem.type === 'text');
+  const idNumbers = idItem && idNumeric ? new Grow(Float64Array) : null;
+  const idTexts: string[] | null = idItem && !idNumeric ? [] : null;
+  const idOdd = new Map<number, string>();
+
+  const uniques: Array<Firsts | null> = codebook.items.map((it) => {
+    if (!it.unique || absent[it.index]) return null;
+    const numeric = cls[it.index]!.shape === 'numeric' || (cls[it.index]!.shape === 'coded' && it.type !== 'text');
+    return numeric ? new NumberFirsts(it.index !== idIndex) : new TextFirsts(it.index !== idIndex);
+  });
+  const uniqueList = uniques.map((u, i) => (u ? i : -1)).filter((i) => i >= 0);
+
+  const groupItems = codebook.groupItems;
+  const groupStates = groupItems.map((g) => ({
+    index: g.index,
+    keys: [] as string[],
+    tallies: [] as Float64Array[],
+    keyOf: new Map<string, number>(),
+    rowKeys: new Grow(Uint32Array),
+  }));
+  const groupKey = (gs: (typeof groupStates)[number], key: string): number => {
+    let k = gs.keyOf.get(key);
+    if (k === undefined) {
+      k = gs.keys.length;
+      gs.keys.push(key);
+      gs.tallies.push(new Float64Array(nItems * SLOTS));
+      gs.keyOf.set(key, k);
+    }
+    return k;
+  };
+  const codeKeyCache = groupStates.map((gs) => new Int32Array(codebook.items[gs.index]!.codes.length).fill(-1));
+
+  let rows = 0;
+
+  /** Canonical id text of the current row: a valid numeric id as its number, else the trimmed cell. */
+  const rowId = (): string => {
+    if (idIndex < 0) return '';
+    if (state[idIndex] === ST_VALID) return idNumeric ? String(num[idIndex]) : text[idIndex]!;
+    return cellOf[idIndex]!.trim();
+  };
+
+  const count = (rule: number, item: number, sev: number): boolean => {
+    if (item >= 0 && item < nItems) findingCounts[item * NR + rule]++;
+    ruleTotals[rule]++;
+    severityTotals[sev]++;
+    return kept[rule]! < cap ? (kept[rule]++, true) : false;
+  };
+
+  const push = (batch: RowBatch): void => {
+    const n = batch.count;
+    const fields = batch.fields;
+    const offsets = batch.offsets;
+    const colData = columns.map((c) => (c ? c.reserve(n) : null));
+    const idNumData = idNumbers ? idNumbers.reserve(n) : null;
+    const rowKeyData = groupStates.map((gs) => gs.rowKeys.reserve(n));
+    for (let r = 0; r < n; r++) {
+      const start = offsets[r]!;
+      const nf = offsets[r + 1]! - start;
+      const at = rows;
+      const row = at + 1;
+      pending.length = 0;
+      if (nf !== headerLen && count(R['ragged-row'], -1, 0)) {
+        pending.push({ row, id: '', item: '', value: `${nf} fields`, rule: 'ragged-row', severity: 'error', message: rules['ragged-row'].message({ fields: nf, expected: headerLen }) });
+      }
+      for (let k = 0; k < nPresent; k++) {
+        const i = presentIdx[k]!;
+        const pos = presentPos[k]!;
+        if (pos >= nf) {
+          state[i] = ST_INVALID;
+          cellOf[i] = '';
+          continue;
+        }
+        const cell = fields[start + pos]!;
+        cellOf[i] = cell;
+        const c = cls[i]!;
+        const st = c.classify(cell);
+        if (out.spaced) trimmed[i]++;
+        if (st === VALID || st === 1) {
+          state[i] = ST_VALID;
+          if (coded[i]) codeIdx[i] = out.code;
+          num[i] = out.num;
+          if (isText[i] || (coded[i] && c.item.type === 'text')) text[i] = out.text;
+          if (needVal[i]) val[i] = c.celValue(out);
+          if (st !== VALID && count(out.rule, i, 1)) {
+            pending.push({ row, id: '', item: c.item.name, value: cutValue(cell), rule: RULE_ORDER[out.rule]!, severity: 'warning', message: c.message(out.rule, cell.trim(), '') });
+          }
+        } else if (st === MISSING) {
+          state[i] = ST_MISSING;
+          kind[i] = out.kind;
+        } else {
+          state[i] = ST_INVALID;
+          if (out.unbinned) unbinned[i]++;
+          if (count(out.rule, i, 0)) {
+            const f: Finding = { row, id: '', item: c.item.name, value: cutValue(cell), rule: RULE_ORDER[out.rule]!, severity: 'error', message: c.message(out.rule, cell.trim(), out.suggestion) };
+            if (out.rule === R['unbinned-value']) f.suggestion = out.suggestion;
+            pending.push(f);
+          }
+        }
+      }
+
+      // Unique values (first occurrence wins; later ones are findings but stay valid).
+      for (let u = 0; u < uniqueList.length; u++) {
+        const i = uniqueList[u]!;
+        if (state[i] !== ST_VALID) continue;
+        const table = uniques[i]!;
+        const isNum = table instanceof NumberFirsts;
+        const fresh = isNum ? table.add(num[i]!, row, i === idIndex ? '' : rowId()) : table.add(text[i]!, row, i === idIndex ? '' : rowId());
+        if (!fresh && count(R['duplicate-id'], i, 0)) {
+          const v = isNum ? String(num[i]! + 0) : text[i]!;
+          pending.push({ row, id: '', item: varNames[i]!, value: v, rule: 'duplicate-id', severity: 'error', message: rules['duplicate-id'].message({ item: varNames[i]!, value: v }) });
+        }
+      }
+
+      // Routing, on the cell-level classification.
+      skipInvalid.length = 0;
+      for (let q = 0; q < routed.length; q++) {
+        const rt = routed[q]!;
+        const i = rt.item;
+        let ok = true;
+        for (const v of rt.vars) {
+          if (v < 0 || state[v] !== ST_VALID) {
+            ok = false;
+            break;
+          }
+          vars[varNames[v]!] = val[v];
+        }
+        if (!ok) {
+          routing[i * 3 + 2]++;
+          continue;
+        }
+        if (rt.expr.evaluate(vars)) {
+          routing[i * 3]++;
+          if (state[i] === ST_MISSING && kind[i] === 0 && count(R['blank-when-asked'], i, 1)) {
+            pending.push({ row, id: '', item: varNames[i]!, value: '', rule: 'blank-when-asked', severity: 'warning', message: rules['blank-when-asked'].message({ item: varNames[i]!, condition: rt.expr.source }) });
+          }
+        } else {
+          routing[i * 3 + 1]++;
+          if (state[i] === ST_VALID) {
+            skipInvalid.push(i);
+            if (count(R['answered-when-skipped'], i, 0)) {
+              const cell = cellOf[i]!;
+              pending.push({ row, id: '', item: varNames[i]!, value: cutValue(cell), rule: 'answered-when-skipped', severity: 'error', message: rules['answered-when-skipped'].message({ item: varNames[i]!, value: cell.trim(), condition: rt.expr.source }) });
+            }
+          }
+        }
+      }
+
+      // Cross-item rules.
+      for (let q = 0; q < ruleSlots.length; q++) {
+        const rs = ruleSlots[q]!;
+        const base = rs.index * 4;
+        if (rs.when) {
+          let ok = true;
+          for (const v of rs.whenVars) {
+            if (v < 0 || state[v] !== ST_VALID) {
+              ok = false;
+              break;
+            }
+            vars[varNames[v]!] = val[v];
+          }
+          if (!ok) {
+            ruleCounts[base + 2]++;
+            continue;
+          }
+          if (!rs.when.evaluate(vars)) {
+            ruleCounts[base + 3]++;
+            continue;
+          }
+        }
+        let ok = true;
+        for (const v of rs.testVars) {
+          if (v < 0 || state[v] !== ST_VALID) {
+            ok = false;
+            break;
+          }
+          vars[varNames[v]!] = val[v];
+        }
+        if (!ok) {
+          ruleCounts[base + 2]++;
+          continue;
+        }
+        if (rs.test.evaluate(vars)) ruleCounts[base]++;
+        else {
+          ruleCounts[base + 1]++;
+          if (count(R['rule-failed'], -1, rs.severity)) {
+            pending.push({ row, id: '', item: rs.id, value: '', rule: 'rule-failed', severity: SEVERITIES[rs.severity]!, message: rules['rule-failed'].message({ rule: rs.id, message: rs.message }) });
+          }
+        }
+      }
+      for (const i of skipInvalid) state[i] = ST_INVALID;
+
+      // Id column, for findings made after the pass.
+      if (idIndex >= 0) {
+        if (idNumData) {
+          if (state[idIndex] === ST_VALID) idNumData[at] = num[idIndex]!;
+          else {
+            idNumData[at] = Number.NaN;
+            idOdd.set(row, cellOf[idIndex]!.trim());
+          }
+        } else idTexts!.push(rowId());
+      }
+
+      // Group keys of this row.
+      for (let g = 0; g < groupStates.length; g++) {
+        const gs = groupStates[g]!;
+        const gi = gs.index;
+        let key: number;
+        if (absent[gi] || state[gi] === ST_MISSING) key = groupKey(gs, GROUP_MISSING);
+        else if (state[gi] === ST_INVALID) key = groupKey(gs, GROUP_INVALID);
+        else if (coded[gi]) {
+          const cache = codeKeyCache[g]!;
+          const ci = codeIdx[gi]!;
+          key = cache[ci]!;
+          if (key < 0) key = cache[ci] = groupKey(gs, codebook.items[gi]!.codes[ci]!.text);
+        } else key = groupKey(gs, idNumericLike(cls[gi]!) ? String(num[gi]) : text[gi]!);
+        rowKeyData[g]![at] = key;
+      }
+
+      // Tallies and retained values.
+      let nMissing = 0;
+      for (let k = 0; k < nPresent; k++) {
+        const i = presentIdx[k]!;
+        const s = state[i]!;
+        const slot = s === ST_VALID ? 0 : s === ST_INVALID ? 1 : 2 + kind[i]!;
+        if (s === ST_MISSING) nMissing++;
+        tallies[i * SLOTS + slot]++;
+        for (let g = 0; g < groupStates.length; g++) groupStates[g]!.tallies[rowKeyData[g]![at]!]![i * SLOTS + slot]++;
+        const col = colData[i];
+        if (col) {
+          if (coded[i]) col[at] = s === ST_VALID ? codeIdx[i]! + 1 : 0;
+          else col[at] = s === ST_VALID ? num[i]! : Number.NaN;
+        }
+      }
+      recordMissing[nMissing]++;
+
+      if (pending.length > 0) {
+        const id = rowId();
+        for (const f of pending) {
+          f.id = id;
+          findings.push(f);
+        }
+      }
+      rows++;
+    }
+    for (const c of columns) if (c) c.length = rows;
+    if (idNumbers) idNumbers.length = rows;
+    for (const gs of groupStates) gs.rowKeys.length = rows;
+  };
+
+  const finish = (): PartialResult => ({
+    codebook,
+    options,
+    header: hmap,
+    rows,
+    tallies,
+    findingCounts,
+    ruleTotals,
+    severityTotals,
+    routing,
+    rules: ruleCounts,
+    trimmed,
+    unbinned,
+    recordMissing,
+    groups: groupStates.map((gs) => ({ item: codebook.items[gs.index]!.name, keys: gs.keys, tallies: gs.tallies, rowKeys: gs.rowKeys.trimmed() })),
+    columns: columns.map((c) => (c ? c.trimmed() : null)),
+    ids: idIndex < 0 ? null : { numbers: idNumbers?.trimmed(), texts: idTexts ?? undefined, odd: idOdd },
+    unique: uniques.map((u) => (u ? u.entries() : null)),
+    findings,
+  });
+
+  return { push, finish };
+}
+
+function idNumericLike(c: ItemClassifier): boolean {
+  return c.shape === 'numeric';
+}
+
+/** The structured-cloneable form of a partial (without the compiled codebook), for postMessage. */
+export type DetachedPartial = Omit<PartialResult, 'codebook'>;
+
+/** Drops the compiled codebook (functions do not cross threads). Cost: O(1). Throws nothing. */
+export function detachPartial(p: PartialResult): DetachedPartial {
+  const { codebook: _cb, ...rest } = p;
+  return rest;
+}
+
+/** Puts the compiled codebook back on a partial received from another thread. Cost: O(1). Throws nothing. */
+export function attachPartial(p: DetachedPartial, codebook: CompiledCodebook): PartialResult {
+  return { ...p, codebook };
+}
+
