@@ -1,1 +1,10 @@
 export type * from './types.ts';
+export { describe } from './describe.ts';
+export {
+  normalizeDescribeOptions,
+  type DescribeOptions,
+  type DescribeOptionsInput,
+  type NormalizedDescribeOptions,
+} from './options.ts';
+export { conventionText, conventionsFor, OUTLIER_NOTE_SHARE, type ConventionKey } from './conventions.ts';
+export { describePairs, type PairOptions } from './pairs.ts';

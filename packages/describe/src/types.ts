@@ -51,6 +51,8 @@ export interface ItemDescription {
   q3Code?: OrdinalPosition;
   /** Ordinal IQR in scale steps (positions), named so. */
   percentiles?: Record<string, number>;
+  /** Ordinal items: requested percentiles (key: percent, e.g. "10") as categories. */
+  percentileCodes?: Record<string, OrdinalPosition>;
   mean?: number;
   sd?: number;
   min?: number;
@@ -80,6 +82,10 @@ export interface ItemDescription {
     median?: number;
     q1?: number;
     q3?: number;
+    /** Ordinal items: weighted median and quartiles as categories. */
+    medianCode?: OrdinalPosition;
+    q1Code?: OrdinalPosition;
+    q3Code?: OrdinalPosition;
     percent?: Record<string, number>;
   };
   /** Statistic name -> reason it is not given for this item. */

@@ -1,0 +1,166 @@
+import {
+  Moments,
+  cvFromMoments,
+  geometricMean,
+  histogramSorted,
+  modesSorted,
+  quantileSorted,
+  sortedCopy,
+  tukeyFences,
+  weightedMoments,
+  weightedQuantiles,
+} from '@codeweir/stats';
+import type { ItemDescription } from './types.ts';
+import type { NormalizedDescribeOptions } from './options.ts';
+import { OUTLIER_NOTE_SHARE, type ConventionKey } from './conventions.ts';
+import { REASON, withhold } from './reasons.ts';
+
+/** How many of the most extreme values beyond the fences are listed on each side. */
+export const OUTLIER_VALUES_SHOWN = 5;
+
+const ALL = [
+  'mean', 'sd', 'min', 'max', 'range', 'median', 'q1', 'q3', 'iqr', 'mode', 'skewness', 'kurtosis',
+  'fences', 'outliers', 'extremes', 'histogram', 'cv', 'geometricMean', 'percentiles',
+];
+
+const round = (x: number) => Number(x.toPrecision(4));
+
+/**
+ * Fills the interval/ratio summary from one numeric column: n, min, max, range, mean, sd,
+ * quartiles, IQR, percentiles, modes, G1, G2, Tukey fences with outlier counts and values, the
+ * outlier note, a histogram, and for ratio items cv and geometric mean; with weights the
+ * weighted mean, sd and quartiles. Returns the convention keys used.
+ * Cost: O(rows + n log n) for n valid values.
+ */
+export function describeContinuous(
+  d: ItemDescription,
+  values: Float64Array,
+  ratio: boolean,
+  opts: NormalizedDescribeOptions,
+  weights?: Float64Array,
+): ConventionKey[] {
+  const valid: number[] = [];
+  const wv: number[] = [];
+  const ww: number[] = [];
+  let excluded = 0;
+  for (let r = 0; r < values.length; r++) {
+    const v = values[r]!;
+    if (Number.isNaN(v)) continue;
+    valid.push(v);
+    if (weights) {
+      const w = weights[r]!;
+      if (Number.isNaN(w)) excluded++;
+      else {
+        wv.push(v);
+        ww.push(w);
+      }
+    }
+  }
+  const n = valid.length;
+  d.n = n;
+  withhold(d.withheld, ['frequencies'], REASON.continuousFrequencies);
+  withhold(d.withheld, ['medianCode', 'q1Code', 'q3Code', 'groupedMedian'], REASON.notBinned);
+  if (!ratio) withhold(d.withheld, ['cv', 'geometricMean'], REASON.intervalZero);
+  const conventions: ConventionKey[] = ['quantileType', 'sd', 'skewness', 'kurtosis', 'mode', 'fences', 'outlierNote', 'histogram'];
+  if (ratio) conventions.push('cv', 'geometricMean');
+  if (n === 0) {
+    withhold(d.withheld, ALL, REASON.noValues);
+    return conventions;
+  }
+  const sorted = sortedCopy(valid);
+  const t = opts.quantileType;
+  const m = Moments.of(sorted);
+  d.min = sorted[0]!;
+  d.max = sorted[n - 1]!;
+  d.range = d.max - d.min;
+  d.mean = m.mean;
+  if (n >= 2) d.sd = m.sd(1);
+  else withhold(d.withheld, ['sd'], REASON.tooFewSd);
+  d.median = quantileSorted(sorted, 0.5, t);
+  d.q1 = quantileSorted(sorted, 0.25, t);
+  d.q3 = quantileSorted(sorted, 0.75, t);
+  d.iqr = d.q3 - d.q1;
+  if (opts.percentiles.length > 0) {
+    d.percentiles = {};
+    for (const p of opts.percentiles) d.percentiles[String(p)] = quantileSorted(sorted, p / 100, t);
+  } else {
+    withhold(d.withheld, ['percentiles'], REASON.noPercentiles);
+  }
+  const md = modesSorted(sorted);
+  if (md.count > 1) d.mode = md.values;
+  else withhold(d.withheld, ['mode'], REASON.noRepeat);
+  const g1 = m.skewness();
+  if (Number.isFinite(g1)) d.skewness = g1;
+  else withhold(d.withheld, ['skewness'], REASON.tooFewSkewness);
+  const g2 = m.kurtosis();
+  if (Number.isFinite(g2)) d.kurtosis = g2;
+  else withhold(d.withheld, ['kurtosis'], REASON.tooFewKurtosis);
+
+  fencesOf(d, sorted);
+  d.histogram = histogramSorted(sorted);
+
+  if (ratio) {
+    if (d.mean > 0 && n >= 2) d.cv = cvFromMoments(m);
+    else withhold(d.withheld, ['cv'], n < 2 ? REASON.tooFewSd : 'the mean is not positive');
+    const gm = geometricMean(sorted);
+    if (Number.isFinite(gm)) d.geometricMean = gm;
+    else withhold(d.withheld, ['geometricMean'], `the geometric mean needs every value > 0 (the smallest is ${d.min})`);
+  }
+
+  if (weights) {
+    conventions.push('weights', 'weightedMean', 'weightedSd', 'weightedQuantiles');
+    const wm = weightedMoments(wv, ww);
+    d.weighted = { sumOfWeights: wm.sumOfWeights, n: wv.length, excluded };
+    if (wm.sumOfWeights > 0) {
+      d.weighted.mean = wm.mean;
+      if (wm.sumOfWeights > 1) d.weighted.sd = Math.sqrt(wm.m2 / (wm.sumOfWeights - 1));
+      const [q1, med, q3] = weightedQuantiles(wv, ww, [0.25, 0.5, 0.75]);
+      d.weighted.q1 = q1!;
+      d.weighted.median = med!;
+      d.weighted.q3 = q3!;
+    }
+  }
+  return conventions;
+}
+
+/** Tukey fences, outlier and extreme counts, the most extreme values and the outlier note. */
+function fencesOf(d: ItemDescription, sorted: Float64Array): void {
+  const f = tukeyFences(d.q1!, d.q3!);
+  d.fences = f;
+  const n = sorted.length;
+  let outliers = 0;
+  let extremes = 0;
+  const inside = new Moments();
+  for (let i = 0; i < n; i++) {
+    const v = sorted[i]!;
+    if (v < f.lowerExtreme || v > f.upperExtreme) extremes++;
+    else if (v < f.lower || v > f.upper) outliers++;
+    else inside.push(v);
+  }
+  d.outliers = outliers;
+  d.extremes = extremes;
+  if (outliers + extremes === 0) return;
+  const low: number[] = [];
+  for (let i = 0; i < n && low.length < OUTLIER_VALUES_SHOWN && sorted[i]! < f.lower; i++) low.push(sorted[i]!);
+  const high: number[] = [];
+  for (let i = n - 1; i >= 0 && high.length < OUTLIER_VALUES_SHOWN && sorted[i]! > f.upper; i--) high.push(sorted[i]!);
+  d.outlierValues = { low, high };
+  // Compare the figures with and without the values beyond the inner fences.
+  const sdIn = inside.sd(1);
+  if (!(inside.n >= 2) || d.sd === undefined) return;
+  const meanShift = Math.abs(d.mean! - inside.mean);
+  const sdShift = sdIn > 0 ? Math.abs(d.sd - sdIn) / sdIn : Number.POSITIVE_INFINITY;
+  const meanMoves = meanShift > OUTLIER_NOTE_SHARE * (sdIn > 0 ? sdIn : 0);
+  const sdMoves = sdShift > OUTLIER_NOTE_SHARE;
+  if (!meanMoves && !sdMoves) return;
+  const count = outliers + extremes;
+  const what = [
+    meanMoves ? `the mean from ${round(inside.mean)} to ${round(d.mean!)}` : '',
+    sdMoves ? `the sd from ${round(sdIn)} to ${round(d.sd)}` : '',
+  ]
+    .filter(Boolean)
+    .join(' and ');
+  d.outlierNote =
+    `${count} value${count === 1 ? '' : 's'} beyond the Tukey fences move${count === 1 ? 's' : ''} ${what}; ` +
+    `the median (${round(d.median!)}) and IQR (${round(d.iqr!)}) describe this item better.`;
+}

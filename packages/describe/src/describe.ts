@@ -1,0 +1,126 @@
+import type { CompiledCodebook, CompiledItem } from '@codeweir/codebook';
+import type { CheckResult, ItemColumn } from '@codeweir/check';
+import type { DescribeResult, ItemDescription } from './types.ts';
+import { normalizeDescribeOptions, type DescribeOptions, type DescribeOptionsInput, type NormalizedDescribeOptions } from './options.ts';
+import { conventionsFor, type ConventionKey } from './conventions.ts';
+import { resolveWeight } from './weights.ts';
+import { describeCategorical, type Category } from './categorical.ts';
+import { describeContinuous } from './continuous.ts';
+import { describePairs } from './pairs.ts';
+
+/**
+ * Level-appropriate summaries of the valid cells of every described item of a checked
+ * delivery (all items with a retained column except the id), plus the requested pairs.
+ *
+ * Conventions (also written into `conventions` on the result and on each item): percents of
+ * valid cells; nominal items get counts, percents and all tied modes in code order; ordinal
+ * items add cumulative percents and the median and quartiles as categories (Hyndman-Fan type 1
+ * on scale positions, IQR in scale steps); binned items add the grouped-data median; interval
+ * and ratio items get mean, sd (n - 1), quantiles of the chosen Hyndman-Fan type, G1 skewness,
+ * G2 excess kurtosis, Tukey fences (1.5 and 3 x IQR) and a Freedman-Diaconis histogram; ratio
+ * items add cv and geometric mean. Every statistic the level does not support is named in
+ * `withheld` with the reason. With a weight item, weighted figures (frequency-weight sd,
+ * weighted ECDF-inverse quantiles) sit beside the unweighted ones.
+ *
+ * Cost: O(rows x items) plus a sort of each numeric item's valid values. Throws CodeweirError
+ * CW_USAGE for bad options (a quantile type outside 1 to 9, an unknown weight or pair item).
+ * @example describe(checkResult, codebook, { quantileType: 6, percentiles: [10, 90] })
+ */
+export function describe(
+  result: CheckResult,
+  codebook: CompiledCodebook,
+  options: DescribeOptions | DescribeOptionsInput | NormalizedDescribeOptions = {},
+): DescribeResult {
+  const opts = normalizeDescribeOptions(options as DescribeOptionsInput);
+  const store = result.store;
+  const weight = resolveWeight(store, codebook, opts.weight);
+  // Pairs first: a bad pair name fails before any work on the items.
+  const pairs = opts.pairs === 'all' || opts.pairs.length > 0 ? describePairs(result, codebook, opts) : [];
+
+  const used = new Set<ConventionKey>(['percent', 'mode']);
+  const items: Record<string, ItemDescription> = {};
+  for (const item of codebook.items) {
+    if (item.role === 'id') continue;
+    const col = store.columns[item.name];
+    if (!col) continue;
+    const w = weight && weight.item !== item.name ? weight.weights : undefined;
+    const { description, conventions } = describeItem(item, col, result, opts, w);
+    for (const c of conventions) used.add(c);
+    items[item.name] = description;
+  }
+  if (opts.listwise) used.add('listwise');
+
+  const out: DescribeResult = {
+    quantileType: opts.quantileType,
+    rows: store.rows,
+    items,
+    pairs,
+    conventions: conventionsFor([...used], opts.quantileType),
+  };
+  if (weight) out.weight = weight.item;
+  if (opts.listwise) out.listwise = true;
+  return out;
+}
+
+/** Categories and per-row category of a column summarised as nominal or ordinal. */
+function categoriesOf(item: CompiledItem, col: ItemColumn): { categories: Category[]; rowCategory: Int32Array } {
+  if (col.kind === 'coded') {
+    const rowCategory = new Int32Array(col.codes.length);
+    for (let r = 0; r < rowCategory.length; r++) rowCategory[r] = col.codes[r]! - 1;
+    const categories = item.codes.map((c): Category => (c.bin ? { code: c.code, label: c.label, bin: c.bin } : { code: c.code, label: c.label }));
+    return { categories, rowCategory };
+  }
+  // A numeric column summarised as categories: its distinct valid values, ascending.
+  const distinct = [...new Set(Array.from(col.values).filter((v) => !Number.isNaN(v)))].sort((a, b) => a - b);
+  const at = new Map(distinct.map((v, i) => [v, i]));
+  const rowCategory = new Int32Array(col.values.length);
+  for (let r = 0; r < rowCategory.length; r++) rowCategory[r] = at.get(col.values[r]!) ?? -1;
+  return { categories: distinct.map((v) => ({ code: v, label: String(v) })), rowCategory };
+}
+
+/** Numeric values of a column summarised as interval or ratio (codes read as numbers). */
+function numbersOf(item: CompiledItem, col: ItemColumn): Float64Array | undefined {
+  if (col.kind === 'numeric') return col.values;
+  const asNumber = item.codes.map((c) => (typeof c.code === 'number' ? c.code : Number(c.code)));
+  if (asNumber.some((v) => !Number.isFinite(v))) return undefined;
+  const out = new Float64Array(col.codes.length);
+  for (let r = 0; r < out.length; r++) {
+    const c = col.codes[r]!;
+    out[r] = c === 0 ? Number.NaN : asNumber[c - 1]!;
+  }
+  return out;
+}
+
+function describeItem(
+  item: CompiledItem,
+  col: ItemColumn,
+  result: CheckResult,
+  opts: NormalizedDescribeOptions,
+  weights: Float64Array | undefined,
+): { description: ItemDescription; conventions: ConventionKey[] } {
+  const tally = result.summary.items[item.name];
+  const d: ItemDescription = {
+    level: item.level ?? 'text',
+    label: item.label,
+    n: 0,
+    missing: { ...(tally?.missing ?? {}) },
+    invalid: tally?.invalid ?? 0,
+    withheld: {},
+  };
+  if (item.unit !== undefined) d.unit = item.unit;
+  if (item.binned) d.binned = true;
+  let conventions: ConventionKey[];
+  const level = item.level;
+  const numbers = level === 'interval' || level === 'ratio' ? numbersOf(item, col) : undefined;
+  if (numbers && !item.binned) {
+    conventions = describeContinuous(d, numbers, level === 'ratio', opts, weights);
+  } else {
+    // Binned items are ordinal whatever the codebook says; interval or ratio codes that are not
+    // numbers keep their declared order, so they are summarised as an ordinal scale.
+    const ordinal = level === 'ordinal' || item.binned || level === 'interval' || level === 'ratio';
+    const { categories, rowCategory } = categoriesOf(item, col);
+    conventions = describeCategorical(d, { categories, rowCategory, level: ordinal ? 'ordinal' : 'nominal', binned: item.binned, weights }, opts);
+  }
+  d.conventions = conventionsFor(conventions, opts.quantileType);
+  return { description: d, conventions };
+}
