@@ -1,0 +1,205 @@
+/**
+ * The same checks as codeweir's, written as SQL for DuckDB: code membership per coded item,
+ * missing kinds by CASE, hard and soft range checks, the routed item, the cross-item rule,
+ * duplicate ids and quartiles (quantile_cont, which is Hyndman-Fan type 7). Built from the
+ * codebook JSON so that every item gets its check. The peer is what the benchmark measures
+ * codeweir against; the smoke test checks that both count the same invalid cells.
+ */
+import type { QuerySpec } from './duckdb-child.mjs';
+
+interface RawCode {
+  code: number | string;
+  bin?: { min: number; max?: number };
+}
+interface RawMissing {
+  code: number | string;
+  kind: string;
+}
+interface RawItem {
+  name: string;
+  role?: string;
+  type: 'integer' | 'decimal' | 'text' | 'date';
+  level?: string;
+  codes?: RawCode[];
+  range?: { min?: number; max?: number };
+  expect?: { min?: number; max?: number };
+  missing?: string | RawMissing[];
+  askedWhen?: string;
+}
+interface RawCodebook {
+  missingSets?: Record<string, RawMissing[]>;
+  items: RawItem[];
+}
+
+/** SQL text of routing conditions and rules, keyed by item name and rule id. */
+export interface PeerSqlExtras {
+  askedWhen: Record<string, string>;
+  rules: Record<string, { test: string; variables: string[] }>;
+}
+
+export interface PeerItem {
+  valid: number;
+  invalid: number;
+  missing: Record<string, number>;
+  findings: Record<string, number>;
+  quartiles?: [number, number, number];
+}
+
+export interface PeerResult {
+  rows: number;
+  items: Record<string, PeerItem>;
+  rules: Record<string, { passed: number; failed: number; undetermined: number }>;
+  duplicateIds: number;
+}
+
+const q = (name: string): string => `"${name.replaceAll('"', '""')}"`;
+const lit = (s: string): string => `'${s.replaceAll("'", "''")}'`;
+const num = (x: number): string => (Number.isInteger(x) ? `${x}.0` : String(x));
+
+function missingOf(cb: RawCodebook, item: RawItem): RawMissing[] {
+  if (item.missing === undefined) return [];
+  return typeof item.missing === 'string' ? (cb.missingSets?.[item.missing] ?? []) : item.missing;
+}
+
+/** Per item: SQL boolean expressions for blank, each missing kind, valid, and each invalid rule. */
+function classify(cb: RawCodebook, item: RawItem) {
+  const x = q(item.name);
+  const numeric = item.type === 'integer' || item.type === 'decimal';
+  // Numeric items compare their parsed value (one TRY_CAST per cell, done in the stage before);
+  // comparing numbers is several times faster in DuckDB than comparing text.
+  const v = numeric ? q(`${item.name}|n`) : `TRY_CAST(${x} AS DOUBLE)`;
+  const blank = `(${x} IS NULL OR ${x} = '')`;
+  const kinds = new Map<string, string[]>();
+  for (const m of missingOf(cb, item)) kinds.set(m.kind, [...(kinds.get(m.kind) ?? []), String(m.code)]);
+  const member = (list: Array<number | string>): string =>
+    numeric && list.every((c) => typeof c === 'number' || /^-?\d+(\.\d+)?$/.test(c))
+      ? `coalesce(${v} IN (${list.map((c) => num(Number(c))).join(', ')}), false)`
+      : `${x} IN (${list.map((c) => lit(String(c))).join(', ')})`;
+  const missingAny = kinds.size ? member([...kinds.values()].flat()) : 'false';
+  const notMissing = `NOT ${blank} AND NOT (${missingAny})`;
+  const invalid: Record<string, string> = {};
+  let valid: string;
+  if (item.codes?.length) {
+    const isCode = member(item.codes.map((c) => c.code));
+    valid = `(${notMissing} AND ${isCode})`;
+    const bins = item.codes.filter((c) => c.bin);
+    if (bins.length) {
+      const inBin = bins
+        .map((c) => `(${v} >= ${num(c.bin!.min)}${c.bin!.max === undefined ? '' : ` AND ${v} <= ${num(c.bin!.max)}`})`)
+        .join(' OR ');
+      invalid['unbinned-value'] = `(${notMissing} AND NOT ${isCode} AND (${inBin}))`;
+      invalid['not-a-code'] = `(${notMissing} AND NOT ${isCode} AND NOT coalesce(${inBin}, false))`;
+    } else {
+      invalid['not-a-code'] = `(${notMissing} AND NOT ${isCode})`;
+    }
+  } else if (item.type === 'integer' || item.type === 'decimal') {
+    const lo = item.range?.min;
+    const hi = item.range?.max;
+    const outside = [lo === undefined ? '' : `${v} < ${num(lo)}`, hi === undefined ? '' : `${v} > ${num(hi)}`].filter(Boolean);
+    invalid['not-a-number'] = `(${notMissing} AND ${v} IS NULL)`;
+    const isInt = item.type === 'integer' ? `${v} = floor(${v})` : 'true';
+    if (item.type === 'integer') invalid['not-an-integer'] = `(${notMissing} AND ${v} IS NOT NULL AND NOT (${isInt}))`;
+    const inRange = outside.length ? `NOT (${outside.join(' OR ')})` : 'true';
+    if (outside.length) invalid['impossible'] = `(${notMissing} AND ${v} IS NOT NULL AND ${isInt} AND NOT (${inRange}))`;
+    valid = `(${notMissing} AND ${v} IS NOT NULL AND ${isInt} AND ${inRange})`;
+  } else {
+    valid = `(${notMissing})`;
+  }
+  return { x, v, numeric, blank, kinds, member, valid, invalid };
+}
+
+/**
+ * Builds the peer's statements: one load of the CSV into a table (every column as text, as
+ * delivered), then one aggregate query over it, one for duplicate ids and one for the routed
+ * items. Cost: O(items) string building.
+ */
+export function buildPeer(codebook: unknown, csvPath: string, extras: PeerSqlExtras): QuerySpec {
+  const cb = codebook as RawCodebook;
+  // First every cell gets one class (a small integer: 1 valid, 2 blank, 3.. a missing kind or an
+  // invalid rule) and, when valid, its typed value; then one scan counts the classes.
+  const classCols: string[] = [];
+  const typedCols: string[] = [];
+  const cols: string[] = ['count(*) AS "rows"'];
+  const validTyped = new Map<string, string>();
+  const sub = (expr: string): string =>
+    expr.replace(/\b[a-z_][a-z0-9_]*\b/gi, (w) => (validTyped.has(w) ? validTyped.get(w)! : w));
+  for (const item of cb.items) {
+    const c = classify(cb, item);
+    const n = item.name;
+    const cls = q(`${n}|c`);
+    typedCols.push(c.x);
+    if (c.numeric) typedCols.push(`TRY_CAST(${c.x} AS DOUBLE) AS ${c.v}`);
+    const labels: Array<[string, string, string]> = [['valid', c.valid, `${n}|valid`], ['blank', c.blank, `${n}|missing|blank`]];
+    for (const [kind, codes] of c.kinds) labels.push([kind, c.member(codes), `${n}|missing|${kind}`]);
+    for (const [rule, cond] of Object.entries(c.invalid)) labels.push([rule, cond, `${n}|finding|${rule}`]);
+    // Blank and missing first, so that the invalid tests see only the remaining cells.
+    const order = [labels[1], ...labels.slice(2), labels[0]];
+    classCols.push(`CASE ${order.map(([, cond], k) => `WHEN ${cond} THEN ${k + 1}`).join(' ')} END AS ${cls}`);
+    order.forEach(([, , alias], k) => cols.push(`count(*) FILTER (WHERE ${cls} = ${k + 1}) AS ${q(alias)}`));
+    const validK = order.length;
+    if (item.type === 'integer' || item.type === 'decimal') {
+      classCols.push(`CASE WHEN ${c.valid} THEN ${c.v} END AS ${q(`${n}|v`)}`);
+      validTyped.set(n, q(`${n}|v`));
+    } else validTyped.set(n, `(CASE WHEN ${cls} = ${validK} THEN ${c.x} END)`);
+    if (item.expect && !item.codes?.length && validTyped.has(n)) {
+      const v = validTyped.get(n)!;
+      const o = [item.expect.min === undefined ? '' : `${v} < ${num(item.expect.min)}`, item.expect.max === undefined ? '' : `${v} > ${num(item.expect.max)}`]
+        .filter(Boolean)
+        .join(' OR ');
+      cols.push(`count(*) FILTER (WHERE ${o}) AS ${q(`${n}|finding|implausible`)}`);
+    }
+    if ((item.level === 'interval' || item.level === 'ratio') && !item.codes?.length && item.role !== 'id') {
+      cols.push(`quantile_cont(${validTyped.get(n)}, [0.25, 0.5, 0.75]) AS ${q(`${n}|quartiles`)}`);
+    }
+  }
+  for (const [id, rule] of Object.entries(extras.rules)) {
+    const allValid = rule.variables.map((vname) => `${validTyped.get(vname)} IS NOT NULL`).join(' AND ');
+    const typed = sub(rule.test);
+    cols.push(`count(*) FILTER (WHERE ${allValid} AND (${typed})) AS ${q(`rule|${id}|passed`)}`);
+    cols.push(`count(*) FILTER (WHERE ${allValid} AND NOT (${typed})) AS ${q(`rule|${id}|failed`)}`);
+    cols.push(`count(*) FILTER (WHERE NOT (${allValid})) AS ${q(`rule|${id}|undetermined`)}`);
+  }
+  for (const [name, cond] of Object.entries(extras.askedWhen)) {
+    cols.push(`count(*) FILTER (WHERE (${sub(cond)}) = false AND ${validTyped.get(name)} IS NOT NULL) AS ${q(`${name}|finding|answered-when-skipped`)}`);
+  }
+  const idItem = cb.items.find((i) => i.role === 'id');
+  const counts = cols.filter((c) => !c.startsWith('quantile_cont'));
+  const quartiles = cols.filter((c) => c.startsWith('quantile_cont'));
+  // Counts and quartiles are separate queries: mixed with the FILTER counts, DuckDB plans each
+  // holistic quantile aggregate as its own branch joined back, several times slower.
+  const queries: Record<string, string> = { summary: `SELECT ${counts.join(',\n  ')} FROM cells` };
+  if (quartiles.length) queries.quartiles = `SELECT ${quartiles.join(',\n  ')} FROM cells`;
+  if (idItem) {
+    const id = q(idItem.name);
+    queries.duplicates = `SELECT coalesce(sum(n - 1), 0) AS "duplicateIds" FROM (SELECT count(*) AS n FROM delivery WHERE ${id} IS NOT NULL GROUP BY ${id} HAVING count(*) > 1)`;
+  }
+  return {
+    setup: [
+      `CREATE TABLE delivery AS SELECT * FROM read_csv(${lit(csvPath)}, header = true, all_varchar = true, delim = ',', quote = '"', escape = '"')`,
+      `CREATE TEMP TABLE typed AS SELECT ${typedCols.join(', ')} FROM delivery`,
+      `CREATE TEMP TABLE cells AS SELECT ${classCols.join(',\n  ')} FROM typed`,
+    ],
+    queries,
+  };
+}
+
+/** Shapes the peer's raw result rows into per-item tallies. Cost: O(columns). */
+export function shapePeer(raw: Record<string, Array<Record<string, unknown>>>): PeerResult {
+  const row = { ...raw.summary[0], ...(raw.quartiles?.[0] ?? {}) };
+  const out: PeerResult = { rows: Number(row.rows), items: {}, rules: {}, duplicateIds: Number(raw.duplicates?.[0]?.duplicateIds ?? 0) };
+  const itemOf = (n: string): PeerItem => (out.items[n] ??= { valid: 0, invalid: 0, missing: {}, findings: {} });
+  for (const [key, value] of Object.entries(row)) {
+    const p = key.split('|');
+    if (p[0] === 'rule') {
+      const r = (out.rules[p[1]] ??= { passed: 0, failed: 0, undetermined: 0 });
+      r[p[2] as 'passed'] = Number(value);
+    } else if (p[1] === 'valid') itemOf(p[0]).valid = Number(value);
+    else if (p[1] === 'missing') {
+      if (Number(value) > 0) itemOf(p[0]).missing[p[2]] = Number(value);
+    } else if (p[1] === 'finding') {
+      if (Number(value) > 0) itemOf(p[0]).findings[p[2]] = Number(value);
+      if (p[2] !== 'implausible' && p[2] !== 'answered-when-skipped') itemOf(p[0]).invalid += Number(value);
+    } else if (p[1] === 'quartiles' && Array.isArray(value)) itemOf(p[0]).quartiles = value.map(Number) as [number, number, number];
+  }
+  return out;
+}
