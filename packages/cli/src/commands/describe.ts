@@ -1,11 +1,128 @@
+import { resolve } from 'node:path';
+import { loadCodebookOrThrow } from '@codeweir/codebook';
+import { checkFile } from '@codeweir/check';
+import { describe, normalizeDescribeOptions, type DescribeResult, type ItemDescription, type PairDescription } from '@codeweir/describe';
 import type { CommandDef } from '../io.ts';
 
+/** Numbers in the text summary: four significant digits, whole numbers as they are. */
+function num(x: number | undefined | null): string {
+  if (x === undefined || x === null || Number.isNaN(x)) return '-';
+  return Number.isInteger(x) ? String(x) : String(Number(x.toPrecision(4)));
+}
+
+function missingText(d: ItemDescription): string {
+  const parts = Object.entries(d.missing).map(([kind, n]) => `${kind} ${n}`);
+  return parts.length > 0 ? parts.join(', ') : 'none';
+}
+
+/** A few readable lines for one item, by its level. */
+function itemLines(name: string, d: ItemDescription): string[] {
+  const head = `${name} (${d.level}${d.binned ? ', binned' : ''}${d.unit ? `, ${d.unit}` : ''}): n ${d.n}, missing ${missingText(d)}, invalid ${d.invalid}`;
+  const lines = [head];
+  if (d.frequencies) {
+    const shown = d.frequencies.slice(0, 12);
+    for (const f of shown) {
+      const cum = f.cumulativePercent !== undefined ? `  cum ${num(f.cumulativePercent)}%` : '';
+      const w = f.weightedPercent !== undefined ? `  weighted ${num(f.weightedPercent)}%` : '';
+      lines.push(`  ${String(f.code).padStart(4)} ${f.label.slice(0, 30).padEnd(30)} ${String(f.count).padStart(7)}  ${num(f.percent).padStart(6)}%${cum}${w}`);
+    }
+    if (d.frequencies.length > shown.length) lines.push(`  ... ${d.frequencies.length - shown.length} more codes`);
+    if (d.mode && d.mode.length > 0) lines.push(`  mode ${d.mode.join(', ')}`);
+  }
+  if (d.medianCode) {
+    lines.push(`  median ${d.medianCode.code} (${d.medianCode.label}), quartiles ${d.q1Code!.code} to ${d.q3Code!.code}, IQR ${d.iqr} scale steps`);
+  }
+  if (d.groupedMedian !== undefined) lines.push(`  grouped median ${num(d.groupedMedian)}`);
+  if (d.mean !== undefined) {
+    lines.push(`  mean ${num(d.mean)}, sd ${num(d.sd)}, min ${num(d.min)}, max ${num(d.max)}`);
+    lines.push(`  median ${num(d.median)}, q1 ${num(d.q1)}, q3 ${num(d.q3)}, IQR ${num(d.iqr)}; skewness ${num(d.skewness)}, excess kurtosis ${num(d.kurtosis)}`);
+    if (d.cv !== undefined || d.geometricMean !== undefined) lines.push(`  cv ${num(d.cv)}, geometric mean ${num(d.geometricMean)}`);
+    if (d.outliers !== undefined) lines.push(`  outliers ${d.outliers}, extremes ${d.extremes} (Tukey fences ${num(d.fences!.lower)} and ${num(d.fences!.upper)})`);
+    if (d.outlierNote) lines.push(`  note: ${d.outlierNote}`);
+  }
+  if (d.percentiles) lines.push(`  percentiles ${Object.entries(d.percentiles).map(([p, v]) => `${p}: ${num(v)}`).join(', ')}`);
+  if (d.percentileCodes) lines.push(`  percentiles ${Object.entries(d.percentileCodes).map(([p, v]) => `${p}: ${v.code}`).join(', ')}`);
+  if (d.weighted) {
+    const w = d.weighted;
+    const figures = w.mean !== undefined ? `, mean ${num(w.mean)}, sd ${num(w.sd)}, median ${num(w.median)}` : w.medianCode ? `, median ${w.medianCode.code}` : '';
+    lines.push(`  weighted: sum of weights ${num(w.sumOfWeights)}, n ${w.n}, excluded ${w.excluded}${figures}`);
+  }
+  return lines;
+}
+
+function pairLine(p: PairDescription): string {
+  switch (p.kind) {
+    case 'categorical-categorical':
+      return `${p.x} x ${p.y}: n ${p.n}, chi-square ${num(p.chiSquare)} (df ${p.df}, p ${num(p.p)}), Cramer's V ${num(p.cramersV)}`;
+    case 'continuous-continuous':
+      return `${p.x} x ${p.y}: n ${p.n}, Pearson r ${num(p.pearson)}, Spearman rho ${num(p.spearman)}, bivariate outliers ${p.bivariateOutliers.length}`;
+    case 'categorical-continuous':
+      return `${p.x} x ${p.y}: n ${p.n}, eta squared ${num(p.etaSquared)}, ${p.groups.length} groups`;
+  }
+}
+
+/** The readable summary: one block per item, then pairs, then the conventions in use. */
+export function describeText(r: DescribeResult): string {
+  const out: string[] = [`${r.rows} rows; quantiles Hyndman-Fan type ${r.quantileType}${r.weight ? `; weighted by ${r.weight}` : ''}`, ''];
+  for (const [name, d] of Object.entries(r.items)) out.push(...itemLines(name, d), '');
+  if (r.pairs.length > 0) {
+    out.push('Pairs:');
+    for (const p of r.pairs) out.push(`  ${pairLine(p)}`);
+    out.push('');
+  }
+  out.push('Conventions:');
+  for (const [k, v] of Object.entries(r.conventions)) out.push(`  ${k}: ${v}`);
+  return out.join('\n') + '\n';
+}
+
+/**
+ * `codeweir describe <data> --codebook <file> [--pair x:y ...] [--pairs all] [--listwise]
+ * [--weight <item>] [--quantiles 1..9] [--percentiles 10,90] [--delimiter] [--encoding] [--json]`:
+ * checks the delivery, then prints level-appropriate summaries of the valid cells (JSON with
+ * --json). Exit 0 when described, 1 for an invalid codebook, 2 for usage errors or unreadable input.
+ */
 export const describeCommand: CommandDef = {
-  command: 'describe',
-  describe: '(being built)',
-  builder: (y) => y,
-  handler: async (_args, io) => {
-    io.stderr('codeweir: describe is being built.\n');
-    return 2;
+  command: 'describe <data>',
+  describe: 'Level-appropriate summaries of the valid data of a delivery, and bivariate summaries of chosen pairs.',
+  builder: (y) =>
+    y
+      .positional('data', { type: 'string', describe: 'the delivery (CSV or other delimited text)', demandOption: true })
+      .option('codebook', { type: 'string', demandOption: true, describe: 'the codebook JSON file' })
+      .option('pair', { type: 'string', array: true, describe: 'a pair of items to summarise together, as x:y (repeatable)' })
+      .option('pairs', { type: 'string', describe: "'all' to summarise every pair of described items" })
+      .option('listwise', { type: 'boolean', describe: 'pairs use only rows valid on every item of every requested pair' })
+      .option('weight', { type: 'string', describe: "weight item (default: the codebook's weight item)" })
+      .option('quantiles', { type: 'string', describe: 'Hyndman-Fan quantile type, 1 to 9 (default 7)' })
+      .option('percentiles', { type: 'string', describe: 'extra percentiles, e.g. 10,90' })
+      .option('delimiter', { type: 'string', describe: 'field delimiter (detected when absent)' })
+      .option('encoding', { type: 'string', describe: 'utf-8 (default), windows-1252, latin1, utf-16le, utf-16be' })
+      .option('json', { type: 'boolean', default: false, describe: 'print the describe document as JSON on stdout' }),
+  handler: async (args, io) => {
+    // Options are checked before any file is read, so a typo fails at once.
+    const pairsFlag = args.pairs;
+    if (pairsFlag !== undefined && pairsFlag !== 'all') {
+      return usage(io, `--pairs takes 'all', got ${JSON.stringify(pairsFlag)}; name single pairs with --pair x:y.`);
+    }
+    const options = normalizeDescribeOptions({
+      quantileType: args.quantiles,
+      weight: args.weight,
+      pairs: pairsFlag === 'all' ? 'all' : ((args.pair as string[] | undefined) ?? []),
+      listwise: args.listwise,
+      percentiles: args.percentiles,
+    });
+    const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)));
+    const result = await checkFile(resolve(io.cwd, String(args.data)), codebook, {
+      quantileType: options.quantileType,
+      delimiter: args.delimiter,
+      encoding: args.encoding,
+    });
+    const described = describe(result, codebook, options);
+    io.stdout(args.json === true ? JSON.stringify(described, null, 2) + '\n' : describeText(described));
+    return 0;
   },
 };
+
+function usage(io: { stderr(t: string): void }, message: string): number {
+  io.stderr(`codeweir: ${message}\n`);
+  return 2;
+}
