@@ -57,6 +57,11 @@ export function describe(
     pairs,
     conventions: conventionsFor([...used], opts.quantileType),
   };
+  // Pair conventions join the result's under the pair kind, since a key such as `spearman`
+  // means a different computation for a table than for two numeric columns.
+  for (const p of pairs) {
+    for (const [k, v] of Object.entries(p.conventions ?? {})) out.conventions[`${p.kind} ${k}`] = v;
+  }
   if (weight) out.weight = weight.item;
   if (opts.listwise) out.listwise = true;
   return out;

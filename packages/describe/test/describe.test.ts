@@ -246,6 +246,12 @@ suite('pairs are passed through to describePairs', () => {
     expect(p[0]!.kind).toBe('categorical-continuous');
     expect(p[0]!.n).toBe(4);
   });
+  it("the pairs' conventions join the result's, keyed by pair kind", () => {
+    const out = describe(res, cb, { pairs: [['sex', 'age']] });
+    const keys = Object.keys(out.pairs[0]!.conventions ?? {});
+    expect(keys.length).toBeGreaterThan(0);
+    for (const k of keys) expect(out.conventions[`categorical-continuous ${k}`]).toBe(out.pairs[0]!.conventions![k]);
+  });
   it('an unknown pair item is a usage error', () => {
     expect(() => describe(res, cb, { pairs: [['sex', 'nope']] })).toThrow(/nope/);
   });
