@@ -3,6 +3,7 @@
  * end held back for the next block. UTF-8 is decoded strictly so a file saved in a legacy code
  * page is reported instead of silently turned into replacement characters.
  */
+import { isUtf8 } from 'node:buffer';
 import iconv from 'iconv-lite';
 import type { Encoding } from './types.ts';
 
@@ -14,9 +15,10 @@ export interface ChunkDecoder {
 export function makeDecoder(encoding: Encoding): ChunkDecoder {
   switch (encoding) {
     case 'utf-8':
+      return utf8Decoder();
     case 'utf-16le':
     case 'utf-16be': {
-      const d = new TextDecoder(encoding, { fatal: encoding === 'utf-8', ignoreBOM: true });
+      const d = new TextDecoder(encoding, { ignoreBOM: true });
       return { decode: (bytes, final) => d.decode(bytes, { stream: !final }) };
     }
     case 'latin1':
@@ -32,6 +34,36 @@ export function makeDecoder(encoding: Encoding): ChunkDecoder {
       };
     }
   }
+}
+
+/**
+ * Strict UTF-8: a native validity check and a native decode of each block, several times faster
+ * than a fatal TextDecoder. The bytes of a character cut by the block end wait for the next block.
+ */
+function utf8Decoder(): ChunkDecoder {
+  let held = new Uint8Array(0);
+  return {
+    decode(bytes, final) {
+      let buf = bytes;
+      if (held.length > 0) {
+        buf = new Uint8Array(held.length + bytes.length);
+        buf.set(held);
+        buf.set(bytes, held.length);
+      }
+      let cut = buf.length;
+      if (!final) {
+        let i = buf.length - 1;
+        for (let k = 0; k < 3 && i > 0 && ((buf[i] as number) & 0xc0) === 0x80; k++) i--;
+        const b = buf[i] as number;
+        const need = b >= 0xf0 ? 4 : b >= 0xe0 ? 3 : b >= 0xc0 ? 2 : 1;
+        if (i >= 0 && i + need > buf.length) cut = i;
+      }
+      held = buf.slice(cut);
+      const part = buf.subarray(0, cut);
+      if (!isUtf8(part)) throw new TypeError('invalid UTF-8');
+      return Buffer.from(part.buffer, part.byteOffset, part.byteLength).toString('utf8');
+    },
+  };
 }
 
 /** Bytes that `text` occupies in `encoding` (for byte offsets of the header end). */

@@ -8,7 +8,7 @@ import { BatchBuilder } from './tokenizer.ts';
 import { parseHeader, tokenizerFor } from './header.ts';
 import { detectBom, detectDelimiter, detectNewline, looksBinary, sniffUtf16 } from './detect.ts';
 import { encodedLength, firstInvalidUtf8, makeDecoder } from './decode.ts';
-import { normalizeReadOptions, type NormalizedOptions } from './options.ts';
+import { defaultBatchRows, normalizeReadOptions, type NormalizedOptions } from './options.ts';
 import type { ByteRange, Delivery, Encoding, RangeDelivery, ReadOptions, RowBatch } from './types.ts';
 
 /** What the first block of a file says about the whole file. */
@@ -194,7 +194,8 @@ export async function* rangeBatches(layout: Layout, range: ByteRange): AsyncGene
     const read = (into: Uint8Array, at: number) => readAt(fh, file, into, Math.min(into.length, end - at), at);
     let pending: Promise<number> | undefined = pos < end ? read(buffers[0] as Uint8Array, pos) : undefined;
     let row = range.firstRow ?? 1;
-    let out = new BatchBuilder(row, options.batchRows);
+    const batchRows = options.batchRows ?? defaultBatchRows(layout.header.length);
+    let out = new BatchBuilder(row, batchRows);
     for (;;) {
       let text = '';
       let final = true;
@@ -218,12 +219,12 @@ export async function* rangeBatches(layout: Layout, range: ByteRange): AsyncGene
       }
       tok.push(text, final);
       for (;;) {
-        const status = tok.fill(out, options.batchRows);
+        const status = tok.fill(out, batchRows);
         if (status === 'more') break;
         if (out.count > 0) {
           row += out.count;
           yield out.finish();
-          out = new BatchBuilder(row, options.batchRows);
+          out = new BatchBuilder(row, batchRows);
         }
         if (status === 'done') return;
       }

@@ -8,13 +8,23 @@ export const DELIMITERS: readonly string[] = [',', ';', '\t', '|'];
 export const DEFAULT_MAX_FIELD_BYTES = 16 * 1024 * 1024;
 /** 8 MiB reads: few system calls and few chunk seams, while memory stays a small multiple of it. */
 export const DEFAULT_BLOCK_SIZE = 8 * 1024 * 1024;
-export const DEFAULT_BATCH_ROWS = 8192;
+/**
+ * Default batch size, in fields: about 32 thousand keeps each batch's `fields` array in the
+ * young generation, which measured about a third faster than batches of 250 thousand fields.
+ */
+export const DEFAULT_BATCH_FIELDS = 32 * 1024;
+
+/** Rows per batch when ReadOptions.batchRows is not given: DEFAULT_BATCH_FIELDS over the width. */
+export function defaultBatchRows(columns: number): number {
+  return Math.max(64, Math.min(4096, Math.floor(DEFAULT_BATCH_FIELDS / Math.max(1, columns))));
+}
 
 export interface NormalizedOptions {
   delimiter?: string;
   encoding?: Encoding;
   maxFieldBytes: number;
-  batchRows: number;
+  /** Undefined: sized from the header width with {@link defaultBatchRows}. */
+  batchRows?: number;
   blockSize: number;
 }
 
@@ -44,7 +54,7 @@ function positiveInteger(name: string, value: number | undefined, fallback: numb
 export function normalizeReadOptions(options: ReadOptions = {}): NormalizedOptions {
   const out: NormalizedOptions = {
     maxFieldBytes: positiveInteger('maxFieldBytes', options.maxFieldBytes, DEFAULT_MAX_FIELD_BYTES),
-    batchRows: positiveInteger('batchRows', options.batchRows, DEFAULT_BATCH_ROWS),
+    batchRows: options.batchRows === undefined ? undefined : positiveInteger('batchRows', options.batchRows, 1),
     blockSize: positiveInteger('blockSize', options.blockSize, DEFAULT_BLOCK_SIZE),
   };
 

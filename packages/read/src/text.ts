@@ -2,14 +2,15 @@
 import { BatchBuilder } from './tokenizer.ts';
 import { parseHeader, tokenizerFor, type HeaderSettings } from './header.ts';
 import { detectDelimiter, detectNewline, looksBinary } from './detect.ts';
-import { normalizeReadOptions } from './options.ts';
+import { defaultBatchRows, normalizeReadOptions } from './options.ts';
 import { CodeweirError } from '@codeweir/core';
 import type { Delivery, ReadOptions, RowBatch } from './types.ts';
 
 const SAMPLE_CHARS = 64 * 1024;
 
-async function* textBatches(text: string, from: number, firstLine: number, s: HeaderSettings): AsyncGenerator<RowBatch> {
-  const { blockSize, batchRows } = s.options;
+async function* textBatches(text: string, from: number, firstLine: number, s: HeaderSettings, columns: number): AsyncGenerator<RowBatch> {
+  const { blockSize } = s.options;
+  const batchRows = s.options.batchRows ?? defaultBatchRows(columns);
   const tok = tokenizerFor(s, firstLine, true);
   let row = 1;
   let out = new BatchBuilder(row, batchRows);
@@ -65,6 +66,6 @@ export function readDeliveryText(text: string, options: ReadOptions = {}): Deliv
     hadBom,
     newline,
     firstDataLine: nextLine,
-    batches: () => textBatches(body, consumed, nextLine, settings),
+    batches: () => textBatches(body, consumed, nextLine, settings, head.header.length),
   };
 }

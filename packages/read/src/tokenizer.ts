@@ -86,6 +86,31 @@ const BLANK = 1;
 const INCOMPLETE = 2;
 type RowStatus = typeof ROW | typeof BLANK | typeof INCOMPLETE;
 
+/** Interned one- and two-character ASCII strings: survey cells are mostly short codes. */
+const ONE: string[] = Array.from({ length: 128 }, (_, i) => String.fromCharCode(i));
+const TWO: Array<string | undefined> = new Array<string | undefined>(128 * 128).fill(undefined);
+
+/**
+ * `s.slice(a, b)`, but a short ASCII value comes from a table instead of a new string: fewer
+ * allocations in the hot loop, and no small string keeps the whole decoded block alive.
+ */
+function cut(s: string, a: number, b: number): string {
+  const len = b - a;
+  if (len === 0) return '';
+  if (len === 1) {
+    const c = s.charCodeAt(a);
+    if (c < 128) return ONE[c] as string;
+  } else if (len === 2) {
+    const c = s.charCodeAt(a);
+    const c2 = s.charCodeAt(a + 1);
+    if ((c | c2) < 128) {
+      const key = (c << 7) | c2;
+      return TWO[key] ?? (TWO[key] = s.slice(a, b));
+    }
+  }
+  return s.slice(a, b);
+}
+
 /** Number of UTF-8 bytes of `s` (for the field-size limit; runs only on very long fields). */
 export function utf8Length(s: string): number {
   let n = 0;
@@ -253,13 +278,16 @@ export class Tokenizer {
       }
       const rowStart = p;
       const f0 = fields.length;
-      let d = this.nextDelim(p);
+      const delim = this.delim;
+      let d = p < this.ndFrom || (this.nd !== -1 && this.nd < p) ? s.indexOf(delim, p) : this.nd;
       while (d !== -1 && d < end) {
-        fields.push(s.slice(p, d));
+        fields.push(cut(s, p, d));
         p = d + 1;
-        d = this.nextDelim(p);
+        d = s.indexOf(delim, p);
       }
-      fields.push(s.slice(p, end));
+      this.nd = d;
+      this.ndFrom = p;
+      fields.push(cut(s, p, end));
       if (end - rowStart > this.safeChars) this.checkRowFields(fields, f0, rowStart);
       this.pos = next;
       this.line++;
@@ -361,7 +389,7 @@ export class Tokenizer {
   }
 
   private pushUnquoted(fields: string[], from: number, to: number, line: number): void {
-    const v = this.text.slice(from, to);
+    const v = cut(this.text, from, to);
     if (v.length > this.safeChars) this.checkField(v, from, line);
     fields.push(v);
   }
