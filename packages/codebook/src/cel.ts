@@ -105,6 +105,11 @@ function at(pos: number | undefined): string {
   return pos === undefined ? '' : ` at character ${pos + 1}`;
 }
 
+function withChar(p: CodebookProblem, pos: number | undefined): CodebookProblem {
+  if (pos !== undefined) p.charIndex = pos;
+  return p;
+}
+
 function isStackOverflow(e: unknown): boolean {
   return e instanceof RangeError || (e instanceof Error && /call stack/i.test(e.message));
 }
@@ -147,7 +152,7 @@ export function compileExpression(ctx: ExpressionContext, source: string, path: 
     if (isStackOverflow(e)) return tooDeep();
     if (e instanceof ParseError && e.code === 'limit_exceeded') return tooDeep();
     const summary = e instanceof ParseError ? e.summary : (e as Error).message.split('\n')[0]!;
-    return { problems: [problem('cel-syntax', path, `CEL syntax error${at(position(e))}: ${summary}`)] };
+    return { problems: [withChar(problem('cel-syntax', path, `CEL syntax error${at(position(e))}: ${summary}`), position(e))] };
   }
   const { depth, ids } = inspect(parsed.ast);
   if (depth > MAX_EXPRESSION_DEPTH) return tooDeep();
@@ -165,10 +170,10 @@ export function compileExpression(ctx: ExpressionContext, source: string, path: 
     if (err.code === 'unknown_variable') {
       const name = /Unknown variable: (.*)$/.exec(err.summary)?.[1] ?? source.slice(pos ?? 0).match(/^\w+/)?.[0] ?? '';
       return {
-        problems: [problem('cel-unknown-item', path, `unknown item "${name}"${at(pos)}${didYouMean(name, ctx.byName.keys())}`)],
+        problems: [withChar(problem('cel-unknown-item', path, `unknown item "${name}"${at(pos)}${didYouMean(name, ctx.byName.keys())}`), pos)],
       };
     }
-    return { problems: [problem('cel-type', path, `CEL type error${at(pos)}: ${err.summary}`)] };
+    return { problems: [withChar(problem('cel-type', path, `CEL type error${at(pos)}: ${err.summary}`), pos)] };
   }
   if (result.type !== 'bool') {
     return { problems: [problem('cel-not-boolean', path, `expression gives a ${result.type}, not a bool (true or false)`)] };

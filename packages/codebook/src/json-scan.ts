@@ -16,6 +16,8 @@ export interface JsonSyntaxError {
 export interface JsonScan {
   /** JSON pointer -> offset where the value starts (for object members: where the key starts). */
   positions: Map<string, number>;
+  /** JSON pointer -> offset of the value itself (for object members: after the colon). */
+  valueStarts: Map<string, number>;
   /** Keys that occur more than once in one object: pointer of the repeated member and its offset. */
   duplicateKeys: Array<{ pointer: string; offset: number }>;
   error?: JsonSyntaxError;
@@ -70,6 +72,7 @@ class ScanError extends Error {
  */
 export function scanJson(text: string): JsonScan {
   const positions = new Map<string, number>();
+  const valueStarts = new Map<string, number>();
   const duplicateKeys: JsonScan['duplicateKeys'] = [];
   let i = 0;
   const n = text.length;
@@ -99,14 +102,14 @@ export function scanJson(text: string): JsonScan {
         const e = text[i + 1];
         if (e === 'u') {
           const hex = text.slice(i + 2, i + 6);
-          if (!/^[0-9a-fA-F]{4}$/.test(hex)) throw new ScanError(i, 'Bad \\u escape: four hexadecimal digits must follow \\u');
+          if (!/^[0-9a-fA-F]{4}$/.test(hex)) throw new ScanError(i + 1, 'Bad \\u escape: four hexadecimal digits must follow \\u');
           out += String.fromCharCode(parseInt(hex, 16));
           i += 6;
         } else if (e !== undefined && '"\\/bfnrt'.includes(e)) {
           out += JSON.parse(`"\\${e}"`) as string;
           i += 2;
         } else {
-          throw new ScanError(i, `Bad escape '\\${e ?? ''}' in a string`);
+          throw new ScanError(i + 1, `Bad escape '\\${e ?? ''}' in a string`);
         }
         chunk = i;
         continue;
@@ -120,7 +123,10 @@ export function scanJson(text: string): JsonScan {
     skipWs();
     // Positions deeper than any codebook shape are never asked for; skipping them keeps a
     // pathologically deep file linear in memory.
-    if (stack.length <= MAX_RECORDED_DEPTH && !positions.has(path)) positions.set(path, i);
+    if (stack.length <= MAX_RECORDED_DEPTH) {
+      if (!positions.has(path)) positions.set(path, i);
+      valueStarts.set(path, i);
+    }
     const c = text[i];
     if (c === '{') {
       i++;
@@ -220,7 +226,7 @@ export function scanJson(text: string): JsonScan {
   } catch (e) {
     if (!(e instanceof ScanError)) throw e;
     const { line, column } = lineColumn(text, e.offset);
-    return { positions, duplicateKeys, error: { offset: e.offset, line, column, message: e.message } };
+    return { positions, valueStarts, duplicateKeys, error: { offset: e.offset, line, column, message: e.message } };
   }
-  return { positions, duplicateKeys };
+  return { positions, valueStarts, duplicateKeys };
 }

@@ -25,6 +25,18 @@ function offsetOf(positions: ReadonlyMap<string, number>, path: string): number 
 }
 
 /**
+ * Offset in the file of the offending character of a problem inside a string value (CEL),
+ * when the string up to that character has no escapes, so characters map one to one.
+ */
+function charOffset(src: string, valueStarts: ReadonlyMap<string, number>, p: Problem): number | undefined {
+  const idx = (p as CodebookProblem).charIndex;
+  const start = valueStarts.get(p.path);
+  if (idx === undefined || start === undefined || src[start] !== '"') return undefined;
+  const raw = src.slice(start + 1, start + 1 + idx);
+  return raw.includes('\\') || raw.includes('"') ? undefined : start + 1 + idx;
+}
+
+/**
  * Parses and checks codebook text. Returns `ok: true` with the compiled codebook when no
  * problem is at error severity (warnings are returned alongside), else `ok: false` with every
  * problem found. Problems carry line and column (1-based) of the value they point at, and are
@@ -62,13 +74,14 @@ export function parseCodebook(text: string, file?: string): LoadResult {
     problems.push(...analysis.problems);
     result = hasErrors(problems) ? { ok: false, problems } : { ok: true, codebook: buildCompiled(zod.data, analysis.expressions, file), problems };
   }
-  const located: Array<Problem & { offset: number }> = result.problems.map((p) => {
+  const located = result.problems.map((p) => {
     const offset = offsetOf(scan.positions, p.path);
-    if (offset === undefined) return { ...p, offset: -1 };
-    return { ...p, ...lineColumn(src, offset), offset };
+    const at = charOffset(src, scan.valueStarts, p) ?? offset;
+    const { charIndex: _c, ...rest } = p as CodebookProblem;
+    return { problem: at === undefined ? rest : { ...rest, ...lineColumn(src, at) }, offset: offset ?? -1 };
   });
   located.sort((a, b) => a.offset - b.offset);
-  const out = located.map(({ offset: _o, ...p }) => p);
+  const out: Problem[] = located.map((l) => l.problem);
   return result.ok ? { ok: true, codebook: result.codebook, problems: out } : { ok: false, problems: out };
 }
 

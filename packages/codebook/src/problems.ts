@@ -61,6 +61,8 @@ export type ProblemCode = keyof typeof PROBLEM_SEVERITY;
 /** A lint problem whose code is one of {@link ProblemCode}. */
 export interface CodebookProblem extends Problem {
   code: ProblemCode;
+  /** For problems inside a string value (CEL): 0-based index of the offending character. */
+  charIndex?: number;
 }
 
 /** Builds a problem with the declared severity of its code. */

@@ -25,6 +25,8 @@ export const bounds: CodebookCheck = {
       const r = it.range;
       const e = it.expect;
       if (!r || !e || (it.type !== 'integer' && it.type !== 'decimal')) return;
+      // An inverted range is already reported; comparing against it would only add noise.
+      if (r.min !== undefined && r.max !== undefined && r.min > r.max) return;
       const outside = (v: number) => (r.min !== undefined && v < r.min) || (r.max !== undefined && v > r.max);
       for (const end of ['min', 'max'] as const) {
         const v = e[end];
