@@ -88,6 +88,12 @@ function numericMissing(item: CompiledItem, decimalComma: boolean): Array<[numbe
   return out;
 }
 
+/** The pattern as written in the codebook: the compiled form may wrap it as ^(?:...)$ to match the whole value. */
+function displayPattern(source: string): string {
+  const m = /^\^\(\?:([\s\S]*)\)\$$/.exec(source);
+  return m ? m[1]! : source;
+}
+
 function binText(b: { min: number; max: number | null }): string {
   return b.max === null ? `${b.min} or more` : `${b.min} to ${b.max}`;
 }
@@ -144,6 +150,37 @@ function compileItem(item: CompiledItem, out: CellOut, options: CheckOptions): I
     return true;
   };
 
+  /** Trimmed text of a cell; null when it is blank or a declared missing code (kind in `out.kind`). */
+  const answered = (cell: string): string | null => {
+    const t = trim(cell);
+    if (t === null) {
+      out.kind = 0;
+      return null;
+    }
+    return textMissing(t) ? null : t;
+  };
+
+  /** Outcome of {@link parseCell} when it returns NaN. */
+  let pre = MISSING;
+  /** Trims, answers blank, parses once; NaN with the outcome in `pre` when not a number. */
+  const parseCell = (cell: string): number => {
+    const t = trim(cell);
+    if (t === null) {
+      out.kind = 0;
+      pre = MISSING;
+      return Number.NaN;
+    }
+    const v = parseNumber(t, dc);
+    if (Number.isNaN(v)) {
+      if (textMissing(t)) pre = MISSING;
+      else {
+        out.rule = R['not-a-number'];
+        pre = INVALID;
+      }
+    }
+    return v;
+  };
+
   let classify: (cell: string) => number;
   let celValue: (o: CellOut) => unknown = (o) => o.num;
 
@@ -181,17 +218,8 @@ function compileItem(item: CompiledItem, out: CellOut, options: CheckOptions): I
     const binCode = bins.map((b) => item.codes[b.index]!.text);
     const nBins = bins.length;
     classify = (cell) => {
-      const t = trim(cell);
-      if (t === null) {
-        out.kind = 0;
-        return MISSING;
-      }
-      const v = parseNumber(t, dc);
-      if (Number.isNaN(v)) {
-        if (textMissing(t)) return MISSING;
-        out.rule = R['not-a-number'];
-        return INVALID;
-      }
+      const v = parseCell(cell);
+      if (v !== v) return pre;
       const e = v >= lo && v <= hi && (v | 0) === v ? table[v - lo]! : (rest.get(v) ?? 0);
       if (e > 0) {
         out.code = e - 1;
@@ -242,12 +270,8 @@ function compileItem(item: CompiledItem, out: CellOut, options: CheckOptions): I
     };
   } else if (shape === 'numeric' && item.type === 'date') {
     classify = (cell) => {
-      const t = trim(cell);
-      if (t === null) {
-        out.kind = 0;
-        return MISSING;
-      }
-      if (textMissing(t)) return MISSING;
+      const t = answered(cell);
+      if (t === null) return MISSING;
       const v = parseIsoDate(t);
       if (Number.isNaN(v)) {
         out.rule = R['not-a-date'];
@@ -266,17 +290,8 @@ function compileItem(item: CompiledItem, out: CellOut, options: CheckOptions): I
     const eMin = item.expect?.min ?? Number.NEGATIVE_INFINITY;
     const eMax = item.expect?.max ?? Number.POSITIVE_INFINITY;
     classify = (cell) => {
-      const t = trim(cell);
-      if (t === null) {
-        out.kind = 0;
-        return MISSING;
-      }
-      const v = parseNumber(t, dc);
-      if (Number.isNaN(v)) {
-        if (textMissing(t)) return MISSING;
-        out.rule = R['not-a-number'];
-        return INVALID;
-      }
+      const v = parseCell(cell);
+      if (v !== v) return pre;
       for (let m = 0; m < nMiss; m++) {
         if (missV[m] === v) {
           out.kind = missK[m]!;
@@ -302,12 +317,8 @@ function compileItem(item: CompiledItem, out: CellOut, options: CheckOptions): I
     const maxLen = options.maxPatternLength;
     const re = item.pattern ? new RegExp(`^(?:${item.pattern.source})$`, item.pattern.flags.replace(/[gy]/g, '')) : undefined;
     classify = (cell) => {
-      const t = trim(cell);
-      if (t === null) {
-        out.kind = 0;
-        return MISSING;
-      }
-      if (textMissing(t)) return MISSING;
+      const t = answered(cell);
+      if (t === null) return MISSING;
       out.text = t;
       if (re !== undefined) {
         if (t.length > maxLen || !re.test(t)) {
@@ -323,7 +334,7 @@ function compileItem(item: CompiledItem, out: CellOut, options: CheckOptions): I
   const ruleCodes = Object.keys(R) as FindingRule[];
   const byNumber: FindingRule[] = [];
   for (const c of ruleCodes) byNumber[R[c]] = c;
-  const pattern = item.pattern?.source ?? '';
+  const pattern = displayPattern(item.pattern?.source ?? '');
   const message = (rule: number, value: string, suggestion: string): string => {
     const code = byNumber[rule]!;
     switch (code) {

@@ -24,7 +24,7 @@ function parseSlow(s: string, decimalComma: boolean): number {
  *
  * Convention: plain decimal notation only (sign, digits, `.` or with `decimalComma` `,`,
  * exponent); no thousands separators, no hex, no Infinity; -0 reads as 0. Cost: O(length),
- * with a loop-only fast path for integers of up to 15 digits (exact in a double). Throws nothing.
+ * with a loop-only fast path for up to 15 digits (mantissa / 10^k, correctly rounded). Throws nothing.
  * @example parseNumber('-9', false) // -9
  */
 export function parseNumber(s: string, decimalComma: boolean): number {
@@ -38,17 +38,30 @@ export function parseNumber(s: string, decimalComma: boolean): number {
     i = 1;
   } else if (c === 43) i = 1;
   if (i === n) return Number.NaN;
-  if (n - i <= 15) {
-    let v = 0;
-    for (; i < n; i++) {
-      c = s.charCodeAt(i) - 48;
-      if (c < 0 || c > 9) break;
-      v = v * 10 + c;
-    }
-    if (i === n) return neg ? 0 - v : v;
+  const mark = decimalComma ? 44 : 46;
+  let m = 0;
+  let digits = 0;
+  let frac = -1;
+  for (; i < n; i++) {
+    c = s.charCodeAt(i);
+    const d = c - 48;
+    if (d >= 0 && d <= 9) {
+      m = m * 10 + d;
+      digits++;
+      if (frac >= 0) frac++;
+    } else if (c === mark && frac < 0) frac = 0;
+    else break;
+  }
+  // Up to 15 digits the mantissa m is exact, and so is 10^k (k <= 22): one division of two
+  // exact doubles is correctly rounded, so this equals what Number() gives for the same text.
+  if (i === n && digits > 0 && digits <= 15) {
+    const v = frac > 0 ? m / POW10[frac]! : m;
+    return neg ? 0 - v : v;
   }
   return parseSlow(s, decimalComma);
 }
+
+const POW10 = Float64Array.from({ length: 23 }, (_, k) => Number(`1e${k}`));
 
 const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})$/;
 const DAY_MS = 86_400_000;

@@ -208,7 +208,8 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     c.retained && !absent[c.item.index] ? (c.shape === 'coded' ? new Grow(Uint16Array) : new Grow(Float64Array)) : null,
   );
   const coded = Uint8Array.from(cls, (c) => (c.shape === 'coded' ? 1 : 0));
-  const isText = Uint8Array.from(cls, (c) => (c.shape === 'text' ? 1 : 0));
+  /** Items whose valid value is text (free text, or text codes): the trimmed text is kept per row. */
+  const keepText = Uint8Array.from(cls, (c) => (c.shape === 'text' || (c.shape === 'coded' && c.item.type === 'text') ? 1 : 0));
 
   const idItem = codebook.idItem && !absent[codebook.idItem.index] ? codebook.idItem : undefined;
   const idIndex = idItem ? idItem.index : -1;
@@ -260,11 +261,31 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     return kept[rule]! < cap ? (kept[rule]++, true) : false;
   };
 
+  /** Puts the row's values of `list` into `vars`; false (undetermined) when one is not valid or absent. */
+  const bind = (list: readonly number[]): boolean => {
+    for (let k = 0; k < list.length; k++) {
+      const v = list[k]!;
+      if (v < 0 || state[v] !== ST_VALID) return false;
+      vars[varNames[v]!] = val[v];
+    }
+    return true;
+  };
+
   const push = (batch: RowBatch): void => {
     const n = batch.count;
     const fields = batch.fields;
     const offsets = batch.offsets;
-    const colData = columns.map((c) => (c ? c.reserve(n) : null));
+    // Split by element type so each store below stays monomorphic.
+    const f64Cols: Array<Float64Array | null> = [];
+    const u16Cols: Array<Uint16Array | null> = [];
+    for (let i = 0; i < nItems; i++) {
+      const c = columns[i];
+      const data = c ? c.reserve(n) : null;
+      f64Cols.push(data instanceof Float64Array ? data : null);
+      u16Cols.push(data instanceof Uint16Array ? data : null);
+    }
+    const nGroups = groupStates.length;
+    const rowTallies: Float64Array[] = groupStates.map(() => tallies);
     const idNumData = idNumbers ? idNumbers.reserve(n) : null;
     const rowKeyData = groupStates.map((gs) => gs.rowKeys.reserve(n));
     for (let r = 0; r < n; r++) {
@@ -293,7 +314,7 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
           state[i] = ST_VALID;
           if (coded[i]) codeIdx[i] = out.code;
           num[i] = out.num;
-          if (isText[i] || (coded[i] && c.item.type === 'text')) text[i] = out.text;
+          if (keepText[i]) text[i] = out.text;
           if (needVal[i]) val[i] = c.celValue(out);
           if (st !== VALID && count(out.rule, i, 1)) {
             pending.push({ row, id: '', item: c.item.name, value: cutValue(cell), rule: RULE_ORDER[out.rule]!, severity: 'warning', message: c.message(out.rule, cell.trim(), '') });
@@ -330,15 +351,7 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
       for (let q = 0; q < routed.length; q++) {
         const rt = routed[q]!;
         const i = rt.item;
-        let ok = true;
-        for (const v of rt.vars) {
-          if (v < 0 || state[v] !== ST_VALID) {
-            ok = false;
-            break;
-          }
-          vars[varNames[v]!] = val[v];
-        }
-        if (!ok) {
+        if (!bind(rt.vars)) {
           routing[i * 3 + 2]++;
           continue;
         }
@@ -364,15 +377,7 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
         const rs = ruleSlots[q]!;
         const base = rs.index * 4;
         if (rs.when) {
-          let ok = true;
-          for (const v of rs.whenVars) {
-            if (v < 0 || state[v] !== ST_VALID) {
-              ok = false;
-              break;
-            }
-            vars[varNames[v]!] = val[v];
-          }
-          if (!ok) {
+          if (!bind(rs.whenVars)) {
             ruleCounts[base + 2]++;
             continue;
           }
@@ -381,15 +386,7 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
             continue;
           }
         }
-        let ok = true;
-        for (const v of rs.testVars) {
-          if (v < 0 || state[v] !== ST_VALID) {
-            ok = false;
-            break;
-          }
-          vars[varNames[v]!] = val[v];
-        }
-        if (!ok) {
+        if (!bind(rs.testVars)) {
           ruleCounts[base + 2]++;
           continue;
         }
@@ -431,18 +428,20 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
       }
 
       // Tallies and retained values.
+      for (let g = 0; g < nGroups; g++) rowTallies[g] = groupStates[g]!.tallies[rowKeyData[g]![at]!]!;
       let nMissing = 0;
       for (let k = 0; k < nPresent; k++) {
         const i = presentIdx[k]!;
         const s = state[i]!;
-        const slot = s === ST_VALID ? 0 : s === ST_INVALID ? 1 : 2 + kind[i]!;
+        const slot = i * SLOTS + (s === ST_VALID ? 0 : s === ST_INVALID ? 1 : 2 + kind[i]!);
         if (s === ST_MISSING) nMissing++;
-        tallies[i * SLOTS + slot]++;
-        for (let g = 0; g < groupStates.length; g++) groupStates[g]!.tallies[rowKeyData[g]![at]!]![i * SLOTS + slot]++;
-        const col = colData[i];
-        if (col) {
-          if (coded[i]) col[at] = s === ST_VALID ? codeIdx[i]! + 1 : 0;
-          else col[at] = s === ST_VALID ? num[i]! : Number.NaN;
+        tallies[slot]++;
+        for (let g = 0; g < nGroups; g++) rowTallies[g]![slot]++;
+        const u16 = u16Cols[i];
+        if (u16 !== null) u16[at] = s === ST_VALID ? codeIdx[i]! + 1 : 0;
+        else {
+          const f64 = f64Cols[i];
+          if (f64 !== null) f64[at] = s === ST_VALID ? num[i]! : Number.NaN;
         }
       }
       recordMissing[nMissing]++;

@@ -1,11 +1,128 @@
-import type { CommandDef } from '../io.ts';
+import { resolve } from 'node:path';
+import { loadCodebookOrThrow } from '@codeweir/codebook';
+import { openDelivery, type Delivery, type RowBatch } from '@codeweir/read';
+import { checkDelivery, normalizeCheckOptions, writeCheckOutputs, type CheckResult, type Finding } from '@codeweir/check';
+import { CodeweirError } from '@codeweir/core';
+import type { CommandDef, Io } from '../io.ts';
 
+function plural(n: number, word: string): string {
+  return `${n} ${word}${n === 1 ? '' : 's'}`;
+}
+
+/** Findings shown on the terminal; the rest are in the log written with --out. */
+const SHOWN_FINDINGS = 20;
+
+function findingLine(f: Finding): string {
+  const where = f.row > 0 ? `row ${f.row}${f.id ? ` (${f.id})` : ''}` : 'file';
+  const item = f.item ? ` ${f.item}` : '';
+  const hint = f.suggestion !== undefined ? ` Suggested code: ${f.suggestion}.` : '';
+  return `  ${where}${item}: ${f.severity} ${f.rule}: ${f.message}${hint}`;
+}
+
+/** The human report: verdict line first, then header problems, counts by rule, the first findings. */
+function humanReport(result: CheckResult, data: string, failOnWarning: boolean): string {
+  const s = result.summary;
+  const errors = s.findings.bySeverity.error ?? 0;
+  const warnings = s.findings.bySeverity.warning ?? 0;
+  const infos = s.findings.bySeverity.info ?? 0;
+  const accepted = errors === 0 && !(failOnWarning && warnings > 0);
+  const lines: string[] = [];
+  lines.push(
+    `${data}: ${plural(s.rows, 'row')} checked against ${s.codebook.codebook} ${s.codebook.version}: ` +
+      `${accepted ? 'accepted' : 'not accepted'} (${plural(errors, 'error')}, ${plural(warnings, 'warning')}${infos ? `, ${infos} info` : ''}).`,
+  );
+  const h = s.header;
+  if (h.missing.length) lines.push(`Missing columns: ${h.missing.join(', ')}.`);
+  if (h.duplicate.length) lines.push(`Repeated columns: ${h.duplicate.join(', ')}.`);
+  if (h.unexpected.length) lines.push(`Columns not in the codebook: ${h.unexpected.join(', ')}.`);
+  if (h.outOfOrder) lines.push('Columns are not in codebook order (matched by name).');
+  const byRule = Object.entries(s.findings.byRule).sort((a, b) => (b[1] ?? 0) - (a[1] ?? 0));
+  if (byRule.length) {
+    lines.push('Findings by rule:');
+    for (const [rule, n] of byRule) lines.push(`  ${rule}: ${n}`);
+  }
+  const shown = result.findings.filter((f) => f.severity !== 'info').slice(0, SHOWN_FINDINGS);
+  if (shown.length) {
+    lines.push(`First ${plural(shown.length, 'finding')} at error or warning severity:`);
+    for (const f of shown) lines.push(findingLine(f));
+  }
+  return lines.join('\n') + '\n';
+}
+
+/** Wraps a delivery so that rows read so far are shown on a terminal (stderr), then cleared. */
+function withProgress(d: Delivery, io: Io): Delivery {
+  return {
+    ...d,
+    batches: async function* (): AsyncGenerator<RowBatch> {
+      let rows = 0;
+      let shown = 0;
+      for await (const b of d.batches()) {
+        rows += b.count;
+        if (rows - shown >= 50_000) {
+          io.stderr(`\rchecking: ${rows.toLocaleString('en')} rows`);
+          shown = rows;
+        }
+        yield b;
+      }
+      if (shown > 0) io.stderr('\r\u001b[K');
+    },
+  };
+}
+
+/**
+ * `codeweir check <data> --codebook <file> [--out <dir>] [--split-by <item>] [--json]
+ * [--fail-on warning] [--max-findings-per-rule N] [--delimiter c] [--encoding e]
+ * [--decimal-comma] [--quantiles N] [--quiet]`. Exit 0 when no finding is at error severity
+ * (with --fail-on warning: no warning either), 1 when there are error findings or the
+ * codebook is invalid, 2 for usage errors and unreadable input.
+ */
 export const checkCommand: CommandDef = {
-  command: 'check',
-  describe: '(being built)',
-  builder: (y) => y,
-  handler: async (_args, io) => {
-    io.stderr('codeweir: check is being built.\n');
-    return 2;
+  command: 'check <data>',
+  describe: 'Check a delivery against a codebook; with --out write the findings log, missingness tables and summary.',
+  builder: (y) =>
+    y
+      .positional('data', { type: 'string', describe: 'the delivery (CSV or other delimited text)', demandOption: true })
+      .option('codebook', { type: 'string', demandOption: true, describe: 'the codebook JSON file' })
+      .option('out', { type: 'string', describe: 'folder for findings.csv, findings.jsonl, missingness.csv, missingness-by-group.csv, summary.json' })
+      .option('split-by', { type: 'string', describe: 'a group item: also write by-<item>/<code>/ files holding only that group\'s rows (needs --out)' })
+      .option('json', { type: 'boolean', default: false, describe: 'print the check summary as one JSON document on stdout' })
+      .option('fail-on', { type: 'string', choices: ['error', 'warning'], default: 'error', describe: 'lowest severity that makes the exit code 1' })
+      .option('max-findings-per-rule', { type: 'string', describe: 'findings kept in the log per rule (counts stay exact); default 1000' })
+      .option('delimiter', { type: 'string', describe: 'field delimiter (detected from the header when absent)' })
+      .option('encoding', { type: 'string', describe: 'utf-8 (default), windows-1252, latin1, utf-16le, utf-16be' })
+      .option('decimal-comma', { type: 'boolean', default: false, describe: 'decimals are written with a comma (1,5)' })
+      .option('quantiles', { type: 'string', describe: 'Hyndman-Fan quantile type 1 to 9 for the outlier fences; default 7' })
+      .option('quiet', { type: 'boolean', default: false, describe: 'no progress on stderr' }),
+  handler: async (args, io) => {
+    const data = String(args.data);
+    const options = normalizeCheckOptions({
+      maxFindingsPerRule: args['max-findings-per-rule'],
+      quantileType: args.quantiles,
+      decimalComma: args['decimal-comma'] === true,
+      delimiter: args.delimiter,
+      encoding: args.encoding,
+    });
+    const splitBy = args['split-by'] === undefined ? undefined : String(args['split-by']);
+    if (splitBy !== undefined && args.out === undefined) throw new CodeweirError('CW_USAGE', '--split-by writes files, so it needs --out <dir>.');
+    const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)));
+    if (splitBy !== undefined && !codebook.groupItems.some((g) => g.name === splitBy)) {
+      const groups = codebook.groupItems.map((g) => g.name);
+      throw new CodeweirError('CW_USAGE', `--split-by takes a group item of the codebook${groups.length ? ` (${groups.join(', ')})` : ', which has none'}, got ${splitBy}.`);
+    }
+    const opened = await openDelivery(resolve(io.cwd, data), { delimiter: options.delimiter, encoding: options.encoding });
+    const delivery = io.isTTY && args.quiet !== true && args.json !== true ? withProgress(opened, io) : opened;
+    const result = await checkDelivery(delivery, codebook, options);
+    result.summary.file = data;
+    if (args.out !== undefined) await writeCheckOutputs(result, resolve(io.cwd, String(args.out)), { splitBy });
+    const failOnWarning = args['fail-on'] === 'warning';
+    const errors = result.summary.findings.bySeverity.error ?? 0;
+    const warnings = result.summary.findings.bySeverity.warning ?? 0;
+    const exit = errors > 0 || (failOnWarning && warnings > 0) ? 1 : 0;
+    if (args.json === true) io.stdout(JSON.stringify(result.summary, null, 2) + '\n');
+    else {
+      io.stdout(humanReport(result, data, failOnWarning));
+      if (args.out !== undefined) io.stdout(`Findings log, missingness and summary written to ${String(args.out)}.\n`);
+    }
+    return exit;
   },
 };
