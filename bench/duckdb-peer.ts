@@ -198,8 +198,11 @@ export function shapePeer(raw: Record<string, Array<Record<string, unknown>>>): 
       if (Number(value) > 0) itemOf(p[0]).missing[p[2]] = Number(value);
     } else if (p[1] === 'finding') {
       if (Number(value) > 0) itemOf(p[0]).findings[p[2]] = Number(value);
-      if (p[2] !== 'implausible' && p[2] !== 'answered-when-skipped') itemOf(p[0]).invalid += Number(value);
+      if (p[2] !== 'implausible') itemOf(p[0]).invalid += Number(value);
+
     } else if (p[1] === 'quartiles' && Array.isArray(value)) itemOf(p[0]).quartiles = value.map(Number) as [number, number, number];
   }
+  // A valid answer where routing says skip counts as invalid, not valid (codeweir's convention).
+  for (const it of Object.values(out.items)) it.valid -= it.findings['answered-when-skipped'] ?? 0;
   return out;
 }

@@ -327,8 +327,8 @@ export function generateDelivery(opts: GenerateOptions): GeneratedDelivery {
   const cells: string[] = new Array(itemNames.length);
   for (let i = 0; i < rows; i++) {
     let c = 0;
-    // A re-keyed questionnaire: every 4,999th row repeats the previous identifier.
-    const dup = i > 0 && i % 4999 === 0;
+    // A re-keyed questionnaire: every 997th row repeats the previous identifier.
+    const dup = i > 0 && i % 997 === 0;
     if (dup) duplicateIds++;
     cells[c++] = String(dup ? 100000 + i - 1 : 100000 + i);
     cells[c++] = coded('district', 6, false);
