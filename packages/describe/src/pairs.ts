@@ -16,11 +16,13 @@ import {
   etaSquared,
   goodmanKruskalGamma,
   mahalanobisCutoff,
+  pearson,
   pearsonChiSquare,
   pearsonFromMoments,
   phi,
   quantileSorted,
-  spearman,
+  ranksAlongOrder,
+  sortOrder,
   spearmanFromTable,
   tablePercents,
   tukeyFences,
@@ -48,7 +50,7 @@ export const MAHALANOBIS_PROBABILITY = 0.999;
 
 type Side = { item: CompiledItem; column: ItemColumn };
 type Coded = { item: CompiledItem; codes: Uint16Array };
-type Numeric = { item: CompiledItem; values: Float64Array };
+type Numeric = { item: CompiledItem; values: Float64Array; order: () => Uint32Array };
 
 const CATEGORICAL_CONVENTIONS: Record<string, string> = {
   chiSquare: 'Pearson chi-square without continuity correction; codes with no valid pair are dropped from the test (df over occupied rows and columns) and kept in the table',
@@ -88,9 +90,10 @@ const CONTINUOUS_CONVENTIONS: Record<string, string> = {
  * `pairs: 'all'` takes every pair of describable items (items with a level and retained
  * values, roles item and group; id, weight and free-text items are left out) in codebook order.
  *
- * Cost: one linear scan of two typed columns per pair; continuous pairs add two rank sorts
- * (O(n log n)) and categorical-continuous pairs one sort of each group; the listwise mask is one
- * scan per requested item. 'all' over k items is k (k - 1) / 2 pairs.
+ * Cost: one linear scan of two typed columns per pair, plus one O(n) radix sort of each
+ * continuous item the first time a pair needs it (ranks and group quartiles then walk that
+ * order); the listwise mask is one scan per requested item. 'all' over k items is
+ * k (k - 1) / 2 pairs.
  * Throws CodeweirError CW_USAGE (exit code 2) when a requested pair names an unknown item, an
  * item that cannot be paired (id, weight, free text, no retained values) or the same item twice.
  *
@@ -99,25 +102,46 @@ const CONTINUOUS_CONVENTIONS: Record<string, string> = {
 export function describePairs(result: CheckResult, codebook: CompiledCodebook, options: PairOptions): PairDescription[] {
   const requested = resolvePairs(result, codebook, options.pairs ?? []);
   const include = options.listwise ? listwiseMask(result.store.rows, requested) : undefined;
+  // Each continuous column is sorted once, however many pairs it is in: its order then serves
+  // every pair's ranks and group quartiles in one linear walk.
+  const orders = new Map<string, Uint32Array>();
+  const numeric = (item: CompiledItem, values: Float64Array): Numeric => ({
+    item,
+    values,
+    order: () => {
+      let order = orders.get(item.name);
+      if (order === undefined) {
+        order = sortOrder(values);
+        orders.set(item.name, order);
+      }
+      return order;
+    },
+  });
   return requested.map(([x, y]) => {
-    const described = describeOne(x, y, options.quantileType, include);
+    const described = describeOne(x, y, options.quantileType, include, numeric);
     if (include !== undefined) described.listwise = true;
     return described;
   });
 }
 
-function describeOne(x: Side, y: Side, quantileType: QuantileType, include: Uint8Array | undefined): PairDescription {
+function describeOne(
+  x: Side,
+  y: Side,
+  quantileType: QuantileType,
+  include: Uint8Array | undefined,
+  numeric: (item: CompiledItem, values: Float64Array) => Numeric,
+): PairDescription {
   if (x.column.kind === 'coded' && y.column.kind === 'coded') {
     return describeCategorical({ item: x.item, codes: x.column.codes }, { item: y.item, codes: y.column.codes }, include);
   }
   if (x.column.kind === 'numeric' && y.column.kind === 'numeric') {
-    return describeContinuous({ item: x.item, values: x.column.values }, { item: y.item, values: y.column.values }, include);
+    return describeContinuous(numeric(x.item, x.column.values), numeric(y.item, y.column.values), include);
   }
   const swapped = x.column.kind === 'numeric';
   const [c, v] = swapped ? [y, x] : [x, y];
   const mixed = describeMixed(
     { item: c.item, codes: (c.column as { codes: Uint16Array }).codes },
-    { item: v.item, values: (v.column as { values: Float64Array }).values },
+    numeric(v.item, (v.column as { values: Float64Array }).values),
     quantileType,
     include,
   );
@@ -264,21 +288,35 @@ function describeContinuous(x: Numeric, y: Numeric, include: Uint8Array | undefi
   const xv = x.values;
   const yv = y.values;
   const rows = xv.length;
+  const complete = new Uint8Array(rows);
   let n = 0;
-  for (let r = 0; r < rows; r++) if (!Number.isNaN(xv[r]) && !Number.isNaN(yv[r]) && (include === undefined || include[r] === 1)) n++;
+  for (let r = 0; r < rows; r++) {
+    if (!Number.isNaN(xv[r]) && !Number.isNaN(yv[r]) && (include === undefined || include[r] === 1)) {
+      complete[r] = 1;
+      n++;
+    }
+  }
+  // Ranks among the complete pairs only, from each column's cached order: Spearman's rho is
+  // Pearson's r of these ranks (ties averaged).
+  const xRanks = ranksAlongOrder(xv, x.order(), complete);
+  const yRanks = ranksAlongOrder(yv, y.order(), complete);
   const xs = new Float64Array(n);
   const ys = new Float64Array(n);
+  const rxs = new Float64Array(n);
+  const rys = new Float64Array(n);
   const rowOf = new Uint32Array(n);
   for (let r = 0, k = 0; r < rows; r++) {
-    if (Number.isNaN(xv[r]) || Number.isNaN(yv[r]) || (include !== undefined && include[r] === 0)) continue;
+    if (complete[r] === 0) continue;
     xs[k] = xv[r];
     ys[k] = yv[r];
+    rxs[k] = xRanks[r];
+    rys[k] = yRanks[r];
     rowOf[k] = r;
     k++;
   }
   const moments = coMoments(xs, ys);
   const r = pearsonFromMoments(moments);
-  const rho = spearman(xs, ys);
+  const rho = pearson(rxs, rys);
   const outliers = bivariateOutliers(xs, ys, MAHALANOBIS_PROBABILITY, moments);
   const cutoff = outliers?.cutoff ?? mahalanobisCutoff(MAHALANOBIS_PROBABILITY, 2);
   const flagged = outliers?.indices ?? [];
@@ -346,9 +384,12 @@ function describeMixed(c: Coded, v: Numeric, quantileType: QuantileType, include
   const n = k === 0 ? 0 : start[k] + counts[k];
   const buffer = new Float64Array(n);
   const fill = start.slice();
-  for (let r = 0; r < rows; r++) {
+  // Walking the continuous column in ascending order fills every group already sorted.
+  const order = v.order();
+  for (let i = 0; i < order.length; i++) {
+    const r = order[i];
     const g = codes[r];
-    if (g !== 0 && g <= k && !Number.isNaN(values[r]) && (include === undefined || include[r] === 1)) buffer[fill[g]++] = values[r];
+    if (g !== 0 && g <= k && (include === undefined || include[r] === 1)) buffer[fill[g]++] = values[r];
   }
   const segments: Float64Array[] = [];
   const groups: GroupSummary[] = c.item.codes.map((code, i) => {
@@ -370,13 +411,12 @@ function describeMixed(c: Coded, v: Numeric, quantileType: QuantileType, include
   };
 }
 
-/** Summary of one group's values; sorts `seg` in place (it is this pass's own scratch buffer). */
+/** Summary of one group's values, `seg` sorted ascending. */
 function groupSummary(code: number | string, label: string, seg: Float64Array, quantileType: QuantileType): GroupSummary {
   if (seg.length === 0) {
     return { code, label, n: 0, mean: null, sd: null, median: null, q1: null, q3: null, fences: null, outliers: 0, extremes: 0 };
   }
   const m = Moments.of(seg);
-  seg.sort();
   const q1 = quantileSorted(seg, 0.25, quantileType);
   const median = quantileSorted(seg, 0.5, quantileType);
   const q3 = quantileSorted(seg, 0.75, quantileType);

@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { averageRanks } from '../src/ranks.ts';
+import { averageRanks, ranksAlongOrder, sortOrder } from '../src/ranks.ts';
 import { RB } from './bivariate-oracle.ts';
 import { seeded } from './oracle.ts';
 
@@ -27,9 +27,35 @@ describe('averageRanks', () => {
     expect(ranks.reduce((a, b) => a + b, 0)).toBe((300 * 301) / 2);
   });
 
+  it('orders negatives, signed zeros, infinities and tiny and huge magnitudes as numbers', () => {
+    const rnd = seeded(29);
+    const specials = [-0, 0, Infinity, -Infinity, 5e-324, -5e-324, 1e308, -1e308, 1, -1];
+    const values = Array.from({ length: 400 }, (_, i) => (i % 4 === 0 ? specials[i % specials.length] : (rnd() - 0.5) * 10 ** Math.floor(rnd() * 40 - 20)));
+    // First principles: the counting definition with < and === (under which -0 equals 0).
+    expect(Array.from(averageRanks(values))).toEqual(bruteForceRanks(values));
+  });
+
   it('gives NaN a NaN rank and ranks the rest among themselves', () => {
     const ranks = averageRanks([3, NaN, 1, 3]);
     expect(Number.isNaN(ranks[1])).toBe(true);
     expect([ranks[0], ranks[2], ranks[3]]).toEqual([2.5, 1, 2.5]);
+  });
+});
+
+describe('sortOrder and ranksAlongOrder', () => {
+  it('orders positions by value, stably, without NaN', () => {
+    // First principles: 10 at 2, then the two 20s at 3 and 4 in position order, then 30 at 0.
+    expect(Array.from(sortOrder([30, NaN, 10, 20, 20]))).toEqual([2, 3, 4, 0]);
+  });
+
+  it('ranks a subset among itself, matching the counting definition on the subset', () => {
+    const rnd = seeded(31);
+    const values = Array.from({ length: 300 }, () => Math.floor(rnd() * 30));
+    const include = Uint8Array.from(values, () => (rnd() < 0.6 ? 1 : 0));
+    const ranks = ranksAlongOrder(values, sortOrder(values), include);
+    const subset = values.filter((_, i) => include[i] === 1);
+    const expected = bruteForceRanks(subset);
+    expect(Array.from(ranks).filter((_, i) => include[i] === 1)).toEqual(expected);
+    expect(Array.from(ranks).every((r, i) => include[i] === 1 || Number.isNaN(r))).toBe(true);
   });
 });
