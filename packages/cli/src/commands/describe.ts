@@ -1,5 +1,5 @@
 import { resolve } from 'node:path';
-import { loadCodebookOrThrow } from '@codeweir/codebook';
+import { loadCodebookOrThrow, type CompiledCodebook } from '@codeweir/codebook';
 import { checkFile } from '@codeweir/check';
 import { describe, normalizeDescribeOptions, type DescribeResult, type ItemDescription, type PairDescription } from '@codeweir/describe';
 import type { CommandDef } from '../io.ts';
@@ -15,8 +15,14 @@ function missingText(d: ItemDescription): string {
   return parts.length > 0 ? parts.join(', ') : 'none';
 }
 
+/** Date items hold days since 1970-01-01: locations print as ISO dates. */
+function isoDay(x: number | undefined): string {
+  if (x === undefined || !Number.isFinite(x)) return '-';
+  return new Date(Math.round(x) * 86_400_000).toISOString().slice(0, 10);
+}
+
 /** A few readable lines for one item, by its level. */
-function itemLines(name: string, d: ItemDescription): string[] {
+function itemLines(name: string, d: ItemDescription, date: boolean): string[] {
   const head = `${name} (${d.level}${d.binned ? ', binned' : ''}${d.unit ? `, ${d.unit}` : ''}): n ${d.n}, missing ${missingText(d)}, invalid ${d.invalid}`;
   const lines = [head];
   if (d.frequencies) {
@@ -33,7 +39,10 @@ function itemLines(name: string, d: ItemDescription): string[] {
     lines.push(`  median ${d.medianCode.code} (${d.medianCode.label}), quartiles ${d.q1Code!.code} to ${d.q3Code!.code}, IQR ${d.iqr} scale steps`);
   }
   if (d.groupedMedian !== undefined) lines.push(`  grouped median ${num(d.groupedMedian)}`);
-  if (d.mean !== undefined) {
+  if (d.mean !== undefined && date) {
+    lines.push(`  mean ${isoDay(d.mean)}, sd ${num(d.sd)} days, min ${isoDay(d.min)}, max ${isoDay(d.max)}`);
+    lines.push(`  median ${isoDay(d.median)}, q1 ${isoDay(d.q1)}, q3 ${isoDay(d.q3)}, IQR ${num(d.iqr)} days`);
+  } else if (d.mean !== undefined) {
     lines.push(`  mean ${num(d.mean)}, sd ${num(d.sd)}, min ${num(d.min)}, max ${num(d.max)}`);
     lines.push(`  median ${num(d.median)}, q1 ${num(d.q1)}, q3 ${num(d.q3)}, IQR ${num(d.iqr)}; skewness ${num(d.skewness)}, excess kurtosis ${num(d.kurtosis)}`);
     if (d.cv !== undefined || d.geometricMean !== undefined) lines.push(`  cv ${num(d.cv)}, geometric mean ${num(d.geometricMean)}`);
@@ -44,7 +53,8 @@ function itemLines(name: string, d: ItemDescription): string[] {
   if (d.percentileCodes) lines.push(`  percentiles ${Object.entries(d.percentileCodes).map(([p, v]) => `${p}: ${v.code}`).join(', ')}`);
   if (d.weighted) {
     const w = d.weighted;
-    const figures = w.mean !== undefined ? `, mean ${num(w.mean)}, sd ${num(w.sd)}, median ${num(w.median)}` : w.medianCode ? `, median ${w.medianCode.code}` : '';
+    const at = date ? isoDay : num;
+    const figures = w.mean !== undefined ? `, mean ${at(w.mean)}, sd ${num(w.sd)}, median ${at(w.median)}` : w.medianCode ? `, median ${w.medianCode.code}` : '';
     lines.push(`  weighted: sum of weights ${num(w.sumOfWeights)}, n ${w.n}, excluded ${w.excluded}${figures}`);
   }
   return lines;
@@ -61,10 +71,14 @@ function pairLine(p: PairDescription): string {
   }
 }
 
-/** The readable summary: one block per item, then pairs, then the conventions in use. */
-export function describeText(r: DescribeResult): string {
+/**
+ * The readable summary of a describe result: one block per item, then pairs, then the
+ * conventions in use. `dateItems` names the items whose values are days since 1970-01-01.
+ * Cost: O(items + codes). Throws nothing.
+ */
+export function describeText(r: DescribeResult, dateItems: ReadonlySet<string> = new Set()): string {
   const out: string[] = [`${r.rows} rows; quantiles Hyndman-Fan type ${r.quantileType}${r.weight ? `; weighted by ${r.weight}` : ''}`, ''];
-  for (const [name, d] of Object.entries(r.items)) out.push(...itemLines(name, d), '');
+  for (const [name, d] of Object.entries(r.items)) out.push(...itemLines(name, d, dateItems.has(name)), '');
   if (r.pairs.length > 0) {
     out.push('Pairs:');
     for (const p of r.pairs) out.push(`  ${pairLine(p)}`);
@@ -79,7 +93,8 @@ export function describeText(r: DescribeResult): string {
  * `codeweir describe <data> --codebook <file> [--pair x:y ...] [--pairs all] [--listwise]
  * [--weight <item>] [--quantiles 1..9] [--percentiles 10,90] [--delimiter] [--encoding] [--json]`:
  * checks the delivery, then prints level-appropriate summaries of the valid cells (JSON with
- * --json). Exit 0 when described, 1 for an invalid codebook, 2 for usage errors or unreadable input.
+ * --json). Exit 0 when the delivery has no error findings, 1 when it has some (the summaries are
+ * printed all the same) or the codebook is invalid, 2 for usage errors or unreadable input.
  */
 export const describeCommand: CommandDef = {
   command: 'describe <data>',
@@ -117,10 +132,21 @@ export const describeCommand: CommandDef = {
       encoding: args.encoding,
     });
     const described = describe(result, codebook, options);
-    io.stdout(args.json === true ? JSON.stringify(described, null, 2) + '\n' : describeText(described));
+    io.stdout(args.json === true ? JSON.stringify(described, null, 2) + '\n' : describeText(described, dateItems(codebook)));
+    // The exit code follows the contract for every command: 1 when the delivery has findings
+    // at error severity. The summaries above cover valid cells only, so they stand either way.
+    const errors = result.summary.findings.bySeverity.error ?? 0;
+    if (errors > 0) {
+      io.stderr(`codeweir: the delivery has ${errors} error finding${errors === 1 ? '' : 's'}; the summaries cover valid cells only (run codeweir check for the findings log).\n`);
+      return 1;
+    }
     return 0;
   },
 };
+
+function dateItems(codebook: CompiledCodebook): Set<string> {
+  return new Set(codebook.items.filter((i) => i.type === 'date').map((i) => i.name));
+}
 
 function usage(io: { stderr(t: string): void }, message: string): number {
   io.stderr(`codeweir: ${message}\n`);
