@@ -76,7 +76,7 @@ export function describeCategorical(d: ItemDescription, input: CategoricalInput,
   if (d.mode.length === 0) withhold(d.withheld, ['mode'], REASON.noValues);
 
   if (!ordered) {
-    withhold(d.withheld, [...QUARTILES, 'medianCode', 'q1Code', 'q3Code', 'cumulativePercent', 'groupedMedian'], REASON.nominalOrder);
+    withhold(d.withheld, [...QUARTILES, 'medianCode', 'q1Code', 'q3Code', 'percentileCodes', 'cumulativePercent', 'groupedMedian'], REASON.nominalOrder);
     withhold(d.withheld, ARITHMETIC, REASON.nominalArithmetic);
   } else {
     conventions.push('ordinalQuantiles');
@@ -97,7 +97,7 @@ export function describeCategorical(d: ItemDescription, input: CategoricalInput,
     }
     if (opts.percentiles.length === 0) withhold(d.withheld, ['percentileCodes'], REASON.noPercentiles);
     withhold(d.withheld, ['median', 'q1', 'q3'], REASON.ordinalAsCodes);
-    withhold(d.withheld, ['percentiles'], REASON.ordinalAsCodes);
+    withhold(d.withheld, ['percentiles'], REASON.ordinalPercentiles);
     withhold(d.withheld, ['min', 'max', 'range'], REASON.ordinalExtremes);
     withhold(d.withheld, ARITHMETIC, binned ? REASON.binnedArithmetic : REASON.ordinalArithmetic);
     if (binned) {

@@ -59,7 +59,8 @@ export function describeContinuous(
   const n = valid.length;
   d.n = n;
   withhold(d.withheld, ['frequencies'], REASON.continuousFrequencies);
-  withhold(d.withheld, ['medianCode', 'q1Code', 'q3Code', 'groupedMedian'], REASON.notBinned);
+  withhold(d.withheld, ['medianCode', 'q1Code', 'q3Code', 'percentileCodes'], REASON.numericQuantiles);
+  withhold(d.withheld, ['groupedMedian'], REASON.notBinned);
   if (!ratio) withhold(d.withheld, ['cv', 'geometricMean'], REASON.intervalZero);
   const conventions: ConventionKey[] = ['quantileType', 'sd', 'skewness', 'kurtosis', 'mode', 'fences', 'outlierNote', 'histogram'];
   if (ratio) conventions.push('cv', 'geometricMean');

@@ -4,6 +4,8 @@ export const REASON = {
   nominalArithmetic: 'nominal codes have no arithmetic meaning',
   ordinalArithmetic: 'ordinal codes are ranks, not quantities: scale steps are not known to be equal',
   ordinalAsCodes: 'an ordinal median and quartiles are given as categories (medianCode, q1Code, q3Code)',
+  ordinalPercentiles: 'ordinal percentiles are given as categories (percentileCodes)',
+  numericQuantiles: 'interval and ratio quantiles are given as numbers (median, q1, q3, percentiles)',
   ordinalExtremes: 'the lowest and highest categories used are in the frequency table',
   binnedArithmetic: "a binned item's codes stand for ranges of a quantity; a mean of codes is meaningless",
   notBinned: 'only binned items have bins to interpolate a median in',

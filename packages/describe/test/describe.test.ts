@@ -256,3 +256,34 @@ suite('pairs are passed through to describePairs', () => {
     expect(() => describe(res, cb, { pairs: [['sex', 'nope']] })).toThrow(/nope/);
   });
 });
+
+suite('withheld statistics are absent', () => {
+  it('no item of any level carries a statistic it names in withheld (first principles: the contract)', () => {
+    const cb = codebook([
+      { name: 'nom', level: 'nominal', codes: [{ code: 1 }, { code: 2 }] },
+      { name: 'ord', level: 'ordinal', codes: [{ code: 1 }, { code: 2 }, { code: 3 }] },
+      { name: 'bin', level: 'ordinal', codes: [{ code: 1, bin: { min: 0, max: 4 } }, { code: 2, bin: { min: 5, max: null } }] },
+      { name: 'int', level: 'interval' },
+      { name: 'rat', level: 'ratio' },
+      { name: 'empty', level: 'ratio' },
+    ]);
+    const res = checkResult([
+      coded('nom', [1, 2, 2, 1]),
+      coded('ord', [1, 2, 3, 3]),
+      coded('bin', [1, 1, 1, 2]),
+      numeric('int', [-3, 0, 2, 40]),
+      numeric('rat', [0, 1, 2, 2]),
+      numeric('empty', [Number.NaN, Number.NaN, Number.NaN, Number.NaN]),
+    ]);
+    const out = describe(res, cb, { percentiles: [10] });
+    expect(Object.keys(out.items).sort()).toEqual(['bin', 'empty', 'int', 'nom', 'ord', 'rat']);
+    for (const [name, d] of Object.entries(out.items)) {
+      const record = d as unknown as Record<string, unknown>;
+      for (const key of Object.keys(d.withheld)) expect(record[key], `${name}.${key}`).toBeUndefined();
+      expect(Object.keys(d.withheld).length, name).toBeGreaterThan(0);
+    }
+    expect(out.items.empty!.n).toBe(0);
+    expect(out.items.empty!.withheld.mean).toBe('there are no valid values');
+    expect(out.items.rat!.withheld.geometricMean).toMatch(/> 0/);
+  });
+});
