@@ -37,3 +37,28 @@ describe('quantile: all nine Hyndman-Fan types against R', () => {
     expect(xs).toEqual([3, 1, 2]);
   });
 });
+
+describe('quantile properties (first principles, fast-check)', () => {
+  it('is monotone in p and stays within [min, max] for every type', async () => {
+    const fc = (await import('fast-check')).default;
+    fc.assert(
+      fc.property(
+        fc.array(fc.integer({ min: -1000, max: 1000 }), { minLength: 1, maxLength: 40 }),
+        fc.double({ min: 0, max: 1, noNaN: true }),
+        fc.double({ min: 0, max: 1, noNaN: true }),
+        (xs, a, b) => {
+          const sorted = sortedCopy(xs);
+          const [lo, hi] = a <= b ? [a, b] : [b, a];
+          for (const type of TYPES) {
+            const qa = quantileSorted(sorted, lo, type);
+            const qb = quantileSorted(sorted, hi, type);
+            if (!(qa <= qb + 1e-9)) return false;
+            if (qa < sorted[0]! || qb > sorted[sorted.length - 1]!) return false;
+          }
+          return true;
+        },
+      ),
+      { numRuns: 300, seed: 20261201 },
+    );
+  });
+});
