@@ -5,4 +5,5 @@
 export type * from './types.ts';
 export { openDelivery, openDeliveryRange, tokenizeFile } from './file.ts';
 export { readDeliveryText } from './text.ts';
+export { splitDelivery, type SplitRange } from './split.ts';
 export { normalizeReadOptions, DEFAULT_MAX_FIELD_BYTES, DEFAULT_BLOCK_SIZE, DEFAULT_BATCH_FIELDS } from './options.ts';
