@@ -117,8 +117,9 @@ export function makeCorpus(seed = 20261201): CorpusCase[] {
     expect: { exit: 0, outputs: true, summary: (s) => { if (s.rows !== 0) throw new Error(`rows ${s.rows}`); if (!s.findings.byRule['no-rows']) throw new Error('no no-rows warning'); } },
   });
   {
-    // An unclosed quote opening on data row 150: physical line 151 (the header is line 1).
-    const broken = rows.map((r) => [...r]);
+    // An unclosed quote opening on data row 150: physical line 151 (the header is line 1). No
+    // later field holds a quote, so nothing closes it before the end of the file.
+    const broken = rows.map((r, i) => (i >= 149 ? [...r.slice(0, 4), ''] : [...r]));
     broken[149][4] = '\u0000QUOTE';
     const text = toCsv(HEADER, broken).replace('\u0000QUOTE', '"never closed');
     cases.push({ name: 'unclosed quote', data: { file: 'unclosed.csv', bytes: utf8(text) }, command: 'check', expect: { exit: 2, stderr: [/unclosed\.csv/, /line 151/] } });
