@@ -9,6 +9,7 @@ import type { ChartDef } from './vega.ts';
 /** A chart before the report gives it an id. */
 export type ChartSpec = Omit<ChartDef, 'id'>;
 import { PALETTE, SEQUENTIAL, categoryColours, orderedColours } from './palette.ts';
+import { daysToMs } from './format.ts';
 
 const WIDTH = 420;
 
@@ -54,8 +55,10 @@ export function histogram(
   edges: readonly number[],
   counts: readonly number[],
   axisTitle: string,
+  dates = false,
 ): ChartSpec {
-  const values = counts.map((n, i) => ({ a: edges[i], b: edges[i + 1], n }));
+  const at = (x: number) => (dates ? daysToMs(x) : x);
+  const values = counts.map((n, i) => ({ a: at(edges[i]!), b: at(edges[i + 1]!), n }));
   const spec = {
     title,
     width: WIDTH,
@@ -63,7 +66,7 @@ export function histogram(
     data: { values },
     mark: { type: 'bar', binSpacing: 0, color: PALETTE.blue, stroke: PALETTE.paper, strokeWidth: 0.5 },
     encoding: {
-      x: { field: 'a', type: 'quantitative', bin: { binned: true }, title: axisTitle, scale: { zero: false } },
+      x: dates ? { field: 'a', type: 'temporal', title: axisTitle, scale: { type: 'utc' } } : { field: 'a', type: 'quantitative', bin: { binned: true }, title: axisTitle, scale: { zero: false } },
       x2: { field: 'b' },
       y: { field: 'n', type: 'quantitative', title: 'valid cells', axis: { tickMinStep: 1, format: ',d' } },
     },
@@ -99,34 +102,37 @@ export function boxPlot(
   boxes: readonly Box[],
   points: readonly BoxPoint[],
   axisTitle: string,
+  dates = false,
 ): ChartSpec {
+  const at = (x: number) => (dates ? daysToMs(x) : x);
+  const t = dates ? 'temporal' : 'quantitative';
   const y = { field: 'k', type: 'nominal', sort: boxes.map((b) => b.key), title: null };
-  const boxData = { values: boxes.map((b) => ({ k: b.key, lo: b.low, q1: b.q1, md: b.median, q3: b.q3, hi: b.high })) };
+  const boxData = { values: boxes.map((b) => ({ k: b.key, lo: at(b.low), q1: at(b.q1), md: at(b.median), q3: at(b.q3), hi: at(b.high) })) };
   const layer: unknown[] = [
-    { data: boxData, mark: { type: 'rule', color: PALETTE.grey }, encoding: { y, x: { field: 'lo', type: 'quantitative', title: axisTitle, scale: { zero: false } }, x2: { field: 'hi' } } },
-    { data: boxData, mark: { type: 'tick', color: PALETTE.grey, thickness: 1, size: 10 }, encoding: { y, x: { field: 'lo', type: 'quantitative' } } },
-    { data: boxData, mark: { type: 'tick', color: PALETTE.grey, thickness: 1, size: 10 }, encoding: { y, x: { field: 'hi', type: 'quantitative' } } },
+    { data: boxData, mark: { type: 'rule', color: PALETTE.grey }, encoding: { y, x: { field: 'lo', type: t, title: axisTitle, scale: dates ? { type: 'utc' } : { zero: false } }, x2: { field: 'hi' } } },
+    { data: boxData, mark: { type: 'tick', color: PALETTE.grey, thickness: 1, size: 10 }, encoding: { y, x: { field: 'lo', type: t } } },
+    { data: boxData, mark: { type: 'tick', color: PALETTE.grey, thickness: 1, size: 10 }, encoding: { y, x: { field: 'hi', type: t } } },
     {
       data: boxData,
       mark: { type: 'bar', size: 18, color: PALETTE.lightBlue, stroke: PALETTE.darkBlue, strokeWidth: 1 },
-      encoding: { y, x: { field: 'q1', type: 'quantitative' }, x2: { field: 'q3' } },
+      encoding: { y, x: { field: 'q1', type: t }, x2: { field: 'q3' } },
     },
-    { data: boxData, mark: { type: 'tick', color: PALETTE.darkBlue, thickness: 2.5, size: 18 }, encoding: { y, x: { field: 'md', type: 'quantitative' } } },
+    { data: boxData, mark: { type: 'tick', color: PALETTE.darkBlue, thickness: 2.5, size: 18 }, encoding: { y, x: { field: 'md', type: t } } },
   ];
   const outliers = points.filter((p) => p.kind === 'outlier');
   const extremes = points.filter((p) => p.kind === 'extreme');
   if (outliers.length > 0) {
     layer.push({
-      data: { values: outliers.map((p) => ({ k: p.key, v: p.value, t: 'outlier' })) },
+      data: { values: outliers.map((p) => ({ k: p.key, v: at(p.value), t: 'outlier' })) },
       mark: { type: 'point', shape: 'circle', size: 40, strokeWidth: 1.5, filled: false, color: PALETTE.orange },
-      encoding: { y, x: { field: 'v', type: 'quantitative' }, description: { field: 't' } },
+      encoding: { y, x: { field: 'v', type: t }, description: { field: 't' } },
     });
   }
   if (extremes.length > 0) {
     layer.push({
-      data: { values: extremes.map((p) => ({ k: p.key, v: p.value, t: 'extreme' })) },
+      data: { values: extremes.map((p) => ({ k: p.key, v: at(p.value), t: 'extreme' })) },
       mark: { type: 'point', shape: 'diamond', size: 50, filled: true, color: PALETTE.darkOrange },
-      encoding: { y, x: { field: 'v', type: 'quantitative' }, description: { field: 't' } },
+      encoding: { y, x: { field: 'v', type: t }, description: { field: 't' } },
     });
   }
   const spec = { title, width: WIDTH, height: { step: 36 }, layer };
@@ -178,8 +184,9 @@ export function conditionalBars(
 
 /**
  * Scatter plot of a (sampled) set of points, with flagged points drawn over them as orange
- * diamonds. Marks carry no aria labels: with thousands of points they would only add size;
- * the description and table carry the content.
+ * diamonds. Points at exactly the same place are drawn once, their area growing with how many
+ * rows sit there (survey counts and scales repeat values a lot). Marks carry no aria labels:
+ * with hundreds of points they would only add size; the description and table carry the content.
  */
 export function scatter(
   title: string,
@@ -191,11 +198,23 @@ export function scatter(
 ): ChartSpec {
   const x = { field: 'x', type: 'quantitative', title: xTitle, scale: { zero: false } };
   const y = { field: 'y', type: 'quantitative', title: yTitle, scale: { zero: false } };
+  const counts = new Map<string, { x: number; y: number; n: number }>();
+  for (const [a, b] of points) {
+    const key = `${a},${b}`;
+    const c = counts.get(key);
+    if (c) c.n++;
+    else counts.set(key, { x: a, y: b, n: 1 });
+  }
+  const stacked = [...counts.values()].some((c) => c.n > 1);
   const layer: unknown[] = [
     {
-      data: { values: points.map(([a, b]) => ({ x: a, y: b })) },
-      mark: { type: 'circle', size: 14, opacity: 0.45, color: PALETTE.blue, aria: false },
-      encoding: { x, y },
+      data: { values: [...counts.values()] },
+      mark: { type: 'circle', opacity: 0.5, color: PALETTE.blue, aria: false, ...(stacked ? {} : { size: 16 }) },
+      encoding: {
+        x,
+        y,
+        ...(stacked ? { size: { field: 'n', type: 'quantitative', title: 'rows at the point', scale: { range: [14, 160] }, legend: { symbolFillColor: PALETTE.blue, symbolStrokeColor: PALETTE.blue } } } : {}),
+      },
     },
   ];
   if (flagged.length > 0) {
@@ -231,13 +250,13 @@ export function missingHeatmap(
   cells: readonly HeatCell[],
 ): ChartSpec {
   const top = Math.max(10, ...cells.map((c) => c.percent));
-  const x = { field: 'g', type: 'nominal', sort: [...columns], title: null, axis: { orient: 'top', labelAngle: -40, labelAlign: 'left' } };
+  const x = { field: 'g', type: 'nominal', sort: [...columns], title: null, axis: { orient: 'top', labelAngle: -40, labelAlign: 'left', labelLimit: 240 } };
   const y = { field: 'i', type: 'nominal', sort: [...rows], title: null };
   const values = cells.map((c) => ({
     i: c.row,
     g: c.column,
     p: c.percent,
-    d: `${c.row} in ${c.column}: ${c.percent.toFixed(1)}% missing (${c.missing} of ${c.cells})`,
+    d: `${c.row} in ${c.column}: ${c.percent.toFixed(1)}% (${c.missing} of ${c.cells} cells)`,
   }));
   const spec = {
     title,

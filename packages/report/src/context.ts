@@ -23,6 +23,8 @@ export interface ReportOptions {
   nominalOrder?: 'code' | 'frequency';
   /** Most points drawn in a scatter plot. Default 800. */
   maxScatterPoints?: number;
+  /** Pairs drawn as cards with charts; every pair stays in the overview table. Default 60. */
+  maxPairCards?: number;
 }
 
 export interface Ctx {
@@ -42,6 +44,7 @@ export function createCtx(input: ReportInput, options: ReportOptions = {}): Ctx 
       findingsPerRule: options.findingsPerRule ?? 5,
       nominalOrder: options.nominalOrder ?? 'code',
       maxScatterPoints: options.maxScatterPoints ?? 800,
+      maxPairCards: options.maxPairCards ?? 60,
     },
     charts,
     chart(def) {

@@ -36,7 +36,7 @@ section.block { background: var(--paper); border: 1px solid var(--rule); border-
 .facts dt { color: var(--muted); font-size: 0.8rem; text-transform: uppercase; letter-spacing: 0.04em; }
 .facts dd { margin: 0; font-weight: 600; font-variant-numeric: tabular-nums; }
 table { border-collapse: collapse; font-variant-numeric: tabular-nums; margin: 4px 0 8px; }
-th, td { text-align: left; padding: 3px 10px 3px 0; border-bottom: 1px solid var(--rule); vertical-align: top; }
+th, td { text-align: left; padding: 3px 10px 3px 0; border-bottom: 1px solid var(--rule); vertical-align: top; overflow-wrap: anywhere; }
 th { font-weight: 600; color: var(--muted); font-size: 0.85rem; }
 td.num, th.num { text-align: right; padding-left: 10px; }
 table.wide { width: 100%; }

@@ -28,3 +28,16 @@ export function formatP(p: number | null | undefined): string {
   if (p === null || p === undefined || Number.isNaN(p)) return '-';
   return p < 0.001 ? '< 0.001' : p.toFixed(3);
 }
+
+const DAY_MS = 86_400_000;
+
+/** A date item's value (whole days since 1970-01-01, as check parses dates) as YYYY-MM-DD. */
+export function formatDate(days: number | null | undefined): string {
+  if (days === null || days === undefined || !Number.isFinite(days)) return '-';
+  return new Date(Math.round(days * DAY_MS)).toISOString().slice(0, 10);
+}
+
+/** Days since 1970-01-01 to epoch milliseconds, for temporal chart axes. */
+export function daysToMs(days: number): number {
+  return days * DAY_MS;
+}

@@ -2,7 +2,7 @@
 import type { Frequency, ItemDescription, OrdinalPosition } from '@codeweir/describe';
 import type { CompiledItem } from '@codeweir/codebook';
 import { escapeHtml as esc } from './escape.ts';
-import { formatNumber as num, formatPercent as pct } from './format.ts';
+import { formatDate, formatNumber as num, formatPercent as pct } from './format.ts';
 import { type Ctx, table, figure, itemText } from './context.ts';
 import { barChart, boxPlot, histogram, type Bar } from './charts.ts';
 import { histogramSorted } from '@codeweir/stats';
@@ -33,11 +33,12 @@ function itemCard(ctx: Ctx, name: string, d: ItemDescription, k: number): string
     d.binned ? '<span class="tag">binned counts</span>' : '',
   ].join('');
   const question = item?.text ? `<p class="question">${esc(item.text)}</p>` : '';
+  const absent = ctx.input.check.summary.items[name]?.absent ? '<p class="note">The delivery has no column for this item.</p>' : '';
   const charts = d.level === 'nominal' || d.level === 'ordinal' ? categoricalChart(ctx, name, d, item) : d.level === 'interval' || d.level === 'ratio' ? continuousCharts(ctx, name, d) : '';
   const freq = d.frequencies && d.frequencies.length > 0 ? `<h4>Frequencies</h4>${frequencyTable(d, orderedFrequencies(ctx, d, item))}` : '';
   return `<article class="card" id="item-${k + 1}" aria-labelledby="item-${k + 1}-h">
 <header><h3 id="item-${k + 1}-h"><code>${esc(name)}</code></h3><span class="label">${esc(d.label)}</span><span class="tags">${tags}</span></header>
-${question}${charts}<div class="stats"><div><h4>Statistics</h4>${statisticsTable(ctx, d)}</div><div>${withheldList(d)}${conventionsList(ctx, d)}</div></div>${
+${question}${absent}${charts}<div class="stats"><div><h4>Statistics</h4>${statisticsTable(ctx, name, d)}</div><div>${withheldList(d)}${conventionsList(ctx, d)}</div></div>${
     d.outlierNote ? `<p class="note">${esc(d.outlierNote)}</p>` : ''
   }${freq}</article>`;
 }
@@ -67,6 +68,8 @@ function categoricalChart(ctx: Ctx, name: string, d: ItemDescription, item: Comp
 
 function continuousCharts(ctx: Ctx, name: string, d: ItemDescription): string {
   const what = itemText(ctx, name);
+  const dates = ctx.item(name)?.type === 'date';
+  const at = dates ? formatDate : num;
   const axis = d.unit ? `${name} (${d.unit})` : name;
   const sorted = sortedValues(ctx.input.check.store, name);
   const out: string[] = [];
@@ -74,13 +77,13 @@ function continuousCharts(ctx: Ctx, name: string, d: ItemDescription): string {
   if (hist && hist.counts.length > 0) {
     const width = hist.edges.length > 1 ? hist.edges[1]! - hist.edges[0]! : 0;
     const title = `${what}: distribution`;
-    const description = `Histogram of ${d.n} valid values of ${what} in ${hist.counts.length} bins (${hist.rule}) from ${num(hist.edges[0])} to ${num(hist.edges.at(-1))}.`;
+    const description = `Histogram of ${d.n} valid values of ${what} in ${hist.counts.length} bins (${hist.rule}) from ${at(hist.edges[0])} to ${at(hist.edges.at(-1))}.`;
     const alt = table({
       head: ['from', 'to', 'count'],
       numeric: [0, 1, 2],
-      rows: hist.counts.map((c, i) => [num(hist.edges[i]), num(hist.edges[i + 1]), num(c)]),
+      rows: hist.counts.map((c, i) => [at(hist.edges[i]), at(hist.edges[i + 1]), num(c)]),
     });
-    out.push(figure(ctx, histogram(title, description, hist.edges, hist.counts, axis), `Bins: ${hist.rule}, ${hist.counts.length} bins of width ${num(width)}; each bin holds values from its lower edge up to (not including) its upper edge, the last bin includes its upper edge.`, alt));
+    out.push(figure(ctx, histogram(title, description, hist.edges, hist.counts, axis, dates), `Bins: ${hist.rule}, ${hist.counts.length} bins of width ${num(width)}${dates ? ' days' : ''}; each bin holds values from its lower edge up to (not including) its upper edge, the last bin includes its upper edge.`, alt));
   }
   if (d.q1 !== undefined && d.median !== undefined && d.q3 !== undefined) {
     const stats = { q1: d.q1, median: d.median, q3: d.q3, min: d.min, max: d.max, fences: d.fences, outliers: d.outliers };
@@ -88,74 +91,89 @@ function continuousCharts(ctx: Ctx, name: string, d: ItemDescription): string {
     const title = `${what}: box plot`;
     const nOut = points.filter((p) => p.kind === 'outlier').length;
     const nExt = points.length - nOut;
-    const description = `Box plot of ${what}: median ${num(box.median)}, quartiles ${num(box.q1)} and ${num(box.q3)}, whiskers from ${num(box.low)} to ${num(box.high)}; ${nOut} distinct outlier values and ${nExt} distinct extreme values drawn.`;
+    const description = `Box plot of ${what}: median ${at(box.median)}, quartiles ${at(box.q1)} and ${at(box.q3)}, whiskers from ${at(box.low)} to ${at(box.high)}; ${nOut} distinct outlier values and ${nExt} distinct extreme values drawn.`;
     const alt = table({
       head: ['whisker low', 'Q1', 'median', 'Q3', 'whisker high', 'outliers', 'extremes'],
       numeric: [0, 1, 2, 3, 4, 5, 6],
-      rows: [[num(box.low), num(box.q1), num(box.median), num(box.q3), num(box.high), num(d.outliers), num(d.extremes)]],
+      rows: [[at(box.low), at(box.q1), at(box.median), at(box.q3), at(box.high), num(d.outliers), num(d.extremes)]],
     });
     const whiskers = exact ? 'whiskers to the most extreme values inside the inner fences' : 'whiskers drawn to the inner fences (the values themselves were not retained)';
     const caption = `Box from Q1 to Q3 with a line at the median (quantile type ${ctx.input.describe.quantileType}); ${whiskers}; open circles: outliers beyond 1.5 x IQR (Tukey fences); filled diamonds: extremes beyond 3 x IQR.`;
-    out.push(figure(ctx, boxPlot(title, description, [{ ...box, key: name }], points, axis), caption, alt));
+    out.push(figure(ctx, boxPlot(title, description, [{ ...box, key: name }], points, axis, dates), caption, alt));
   }
   return out.join('');
 }
 
 const positionText = (p: OrdinalPosition | undefined) => (p ? `${esc(p.label)} <span class="note">[${esc(p.code)}]</span>` : undefined);
 
-function statisticsTable(ctx: Ctx, d: ItemDescription): string {
+function statisticsTable(ctx: Ctx, name: string, d: ItemDescription): string {
   const rows: Array<[string, string | undefined]> = [];
+  // Date items are days since 1970-01-01: locations print as dates, spreads as days.
+  const dates = ctx.item(name)?.type === 'date';
+  const at = dates ? formatDate : num;
+  const span = (x: number) => (dates ? `${num(x)} days` : num(x));
   const add = (label: string, value: string | undefined) => rows.push([label, value]);
   const missing = Object.values(d.missing).reduce<number>((a, b) => a + (b ?? 0), 0);
   add('valid (n)', num(d.n));
   add('missing', num(missing));
   add('invalid', num(d.invalid));
-  if (d.mode && d.mode.length > 0) add(d.mode.length > 1 ? 'modes' : 'mode', d.mode.map((m) => esc(labelOfCode(d, m))).join(', '));
+  const tally = ctx.input.check.summary.items[name];
+  if (tally?.routing) {
+    add('routing: asked', num(tally.routing.asked));
+    add('routing: skipped', num(tally.routing.skipped));
+    add('routing: undetermined', num(tally.routing.undetermined));
+  }
+  if (tally?.trimmed) add('cells with surrounding spaces', num(tally.trimmed));
+  if (d.mode && d.mode.length > 0) add(d.mode.length > 1 ? 'modes' : 'mode', d.mode.map((m) => esc(d.frequencies ? labelOfCode(d, m) : typeof m === 'number' ? at(m) : m)).join(', '));
   if (d.medianCode) {
     add('median', positionText(d.medianCode));
     add('Q1', positionText(d.q1Code));
     add('Q3', positionText(d.q3Code));
     if (d.iqr !== undefined) add('IQR (scale steps)', num(d.iqr));
   } else {
-    if (d.median !== undefined) add('median', num(d.median));
-    if (d.q1 !== undefined) add('Q1', num(d.q1));
-    if (d.q3 !== undefined) add('Q3', num(d.q3));
-    if (d.iqr !== undefined) add('IQR', num(d.iqr));
+    if (d.median !== undefined) add('median', at(d.median));
+    if (d.q1 !== undefined) add('Q1', at(d.q1));
+    if (d.q3 !== undefined) add('Q3', at(d.q3));
+    if (d.iqr !== undefined) add('IQR', span(d.iqr));
   }
+  for (const [p, v] of Object.entries(d.percentileCodes ?? {})) add(`percentile ${p}`, positionText(v));
   if (d.groupedMedian !== undefined) add('grouped median', num(d.groupedMedian));
-  for (const [p, v] of Object.entries(d.percentiles ?? {})) add(`percentile ${p}`, num(v));
-  const simple: Array<[keyof ItemDescription, string]> = [
-    ['mean', 'mean'],
-    ['sd', 'standard deviation'],
-    ['min', 'minimum'],
-    ['max', 'maximum'],
-    ['range', 'range'],
-    ['skewness', 'skewness'],
-    ['kurtosis', 'excess kurtosis'],
-    ['cv', 'coefficient of variation'],
-    ['geometricMean', 'geometric mean'],
+  for (const [p, v] of Object.entries(d.percentiles ?? {})) add(`percentile ${p}`, at(v));
+  const simple: Array<[keyof ItemDescription, string, (x: number) => string]> = [
+    ['mean', 'mean', at],
+    ['sd', 'standard deviation', span],
+    ['min', 'minimum', at],
+    ['max', 'maximum', at],
+    ['range', 'range', span],
+    ['skewness', 'skewness', num],
+    ['kurtosis', 'excess kurtosis', num],
+    ['cv', 'coefficient of variation', num],
+    ['geometricMean', 'geometric mean', num],
   ];
-  for (const [key, label] of simple) if (typeof d[key] === 'number') add(label, num(d[key] as number));
+  for (const [key, label, f] of simple) if (typeof d[key] === 'number') add(label, f(d[key] as number));
   if (d.fences) {
-    add('inner fences (1.5 x IQR)', `${num(d.fences.lower)} to ${num(d.fences.upper)}`);
-    add('outer fences (3 x IQR)', `${num(d.fences.lowerExtreme)} to ${num(d.fences.upperExtreme)}`);
+    add('inner fences (1.5 x IQR)', `${at(d.fences.lower)} to ${at(d.fences.upper)}`);
+    add('outer fences (3 x IQR)', `${at(d.fences.lowerExtreme)} to ${at(d.fences.upperExtreme)}`);
   }
   if (d.outliers !== undefined) add('outliers', num(d.outliers));
   if (d.extremes !== undefined) add('extremes', num(d.extremes));
   if (d.outlierValues) {
-    if (d.outlierValues.low.length > 0) add('lowest beyond the fences', d.outlierValues.low.map(num).join(', '));
-    if (d.outlierValues.high.length > 0) add('highest beyond the fences', d.outlierValues.high.map(num).join(', '));
+    if (d.outlierValues.low.length > 0) add('lowest beyond the fences', d.outlierValues.low.map(at).join(', '));
+    if (d.outlierValues.high.length > 0) add('highest beyond the fences', d.outlierValues.high.map(at).join(', '));
   }
   if (d.weighted) {
     const w = d.weighted;
     const weight = ctx.input.describe.weight;
     add(`sum of weights${weight ? ` (${esc(weight)})` : ''}`, num(w.sumOfWeights));
     add('rows without a valid weight', num(w.excluded));
-    if (w.mean !== undefined) add('weighted mean', num(w.mean));
-    if (w.sd !== undefined) add('weighted standard deviation', num(w.sd));
-    if (w.median !== undefined) add('weighted median', num(w.median));
-    if (w.q1 !== undefined) add('weighted Q1', num(w.q1));
-    if (w.q3 !== undefined) add('weighted Q3', num(w.q3));
+    if (w.mean !== undefined) add('weighted mean', at(w.mean));
+    if (w.sd !== undefined) add('weighted standard deviation', span(w.sd));
+    if (w.medianCode) add('weighted median', positionText(w.medianCode));
+    if (w.q1Code) add('weighted Q1', positionText(w.q1Code));
+    if (w.q3Code) add('weighted Q3', positionText(w.q3Code));
+    if (w.median !== undefined) add('weighted median', at(w.median));
+    if (w.q1 !== undefined) add('weighted Q1', at(w.q1));
+    if (w.q3 !== undefined) add('weighted Q3', at(w.q3));
   }
   return table({ head: ['statistic', 'value'], numeric: [1], rows: rows.filter((r) => r[1] !== undefined).map(([l, v]) => [esc(l), v!]) });
 }
@@ -180,18 +198,26 @@ function frequencyTable(d: ItemDescription, freqs: readonly Frequency[]): string
   return table({ head, rows, numeric: head.map((_, i) => i).filter((i) => i >= 2), caption: `Percent of ${d.n} valid cells; missing codes are not categories.` });
 }
 
+/** Withheld statistics grouped by reason: one line per reason, naming every statistic it covers. */
 function withheldList(d: ItemDescription): string {
-  const entries = Object.entries(d.withheld);
-  if (entries.length === 0) return '';
-  return `<h4>Withheld</h4><ul class="plain withheld">${entries.map(([s, why]) => `<li><strong>${esc(s)}</strong>: ${esc(why)}</li>`).join('')}</ul>`;
+  const byReason = new Map<string, string[]>();
+  for (const [stat, why] of Object.entries(d.withheld)) {
+    let list = byReason.get(why);
+    if (!list) byReason.set(why, (list = []));
+    list.push(stat);
+  }
+  if (byReason.size === 0) return '';
+  const lines = [...byReason].map(([why, stats]) => `<li>${stats.map((s) => `<strong>${esc(s)}</strong>`).join(', ')}: ${esc(why)}</li>`);
+  return `<h4>Withheld</h4><ul class="plain withheld">${lines.join('')}</ul>`;
 }
 
 function conventionsList(ctx: Ctx, d: ItemDescription): string {
   const lines: Array<[string, string]> = [];
+  const own = Object.entries(d.conventions ?? (d.level === 'interval' || d.level === 'ratio' ? ctx.input.describe.conventions : {}));
   const hasQuantiles = d.median !== undefined || d.q1 !== undefined || d.medianCode !== undefined;
-  if (hasQuantiles) lines.push(['quantiles', `Hyndman-Fan type ${ctx.input.describe.quantileType}`]);
-  const own = d.conventions ?? (d.level === 'interval' || d.level === 'ratio' ? ctx.input.describe.conventions : {});
-  for (const [k, v] of Object.entries(own)) if (!(hasQuantiles && k === 'quantiles')) lines.push([k, v]);
+  // State the quantile type even when describe gave no per-item convention for it.
+  if (hasQuantiles && !own.some(([k]) => /quantile/i.test(k))) lines.push(['quantiles', `Hyndman-Fan type ${ctx.input.describe.quantileType}`]);
+  lines.push(...own);
   if (lines.length === 0) return '';
   return `<h4>Conventions</h4><ul class="plain conventions">${lines.map(([k, v]) => `<li><strong>${esc(k)}</strong>: ${esc(v)}</li>`).join('')}</ul>`;
 }

@@ -25,6 +25,17 @@ export function percentMissing(t: GroupItemTally | ItemTally): number {
   return cells === 0 ? 0 : (100 * missingTotal(t)) / cells;
 }
 
+/** Missing cells other than valid skips: a skip is the questionnaire's routing, not a gap. */
+function unansweredOf(t: GroupItemTally | ItemTally): number {
+  return missingTotal(t) - (t.missing['not-applicable'] ?? 0);
+}
+
+function heatCell(row: string, column: string, t: GroupItemTally | ItemTally): HeatCell {
+  const cells = cellsOf(t);
+  const missing = unansweredOf(t);
+  return { row, column, percent: cells === 0 ? 0 : (100 * missing) / cells, missing, cells };
+}
+
 export function missingnessSection(ctx: Ctx): string {
   const { summary } = ctx.input.check;
   const names = ctx.input.codebook.items.map((i) => i.name).filter((n) => summary.items[n] !== undefined);
@@ -56,19 +67,19 @@ function groupHeatmap(ctx: Ctx, group: string, byCode: Record<string, Record<str
   };
   const allLabel = 'all rows';
   const columns = [allLabel, ...codes.map(labelOf)];
-  const rows = names.filter((n) => n !== group);
+  // Free text is blank by design on most rows; its counts stay in the table above.
+  const rows = names.filter((n) => n !== group && !isFreeText(ctx, n));
   const cells: HeatCell[] = [];
   for (const n of rows) {
-    const t = summary.items[n]!;
-    cells.push({ row: n, column: allLabel, percent: percentMissing(t), missing: missingTotal(t), cells: cellsOf(t) });
+    cells.push(heatCell(n, allLabel, summary.items[n]!));
     for (const c of codes) {
       const g = byCode[c]![n];
-      if (g) cells.push({ row: n, column: labelOf(c), percent: percentMissing(g), missing: missingTotal(g), cells: cellsOf(g) });
+      if (g) cells.push(heatCell(n, labelOf(c), g));
     }
   }
   const groupText = groupItem ? `${group} (${groupItem.label})` : group;
-  const title = `Percent missing by ${groupText}`;
-  const description = `Heat map of the percent of cells missing (any kind) for ${rows.length} items (rows) in ${codes.length} groups of ${groupText} and in all rows (columns); darker is more missing.`;
+  const title = `Percent missing by ${groupText}, valid skips not counted`;
+  const description = `Heat map of the percent of cells missing for any reason other than a valid skip, for ${rows.length} items (rows) in ${codes.length} groups of ${groupText} and in all rows (columns); darker is more missing.`;
   const cellOf = new Map(cells.map((c) => [`${c.row}\u0000${c.column}`, c]));
   const alt = table({
     head: ['item', ...columns],
@@ -84,9 +95,14 @@ function groupHeatmap(ctx: Ctx, group: string, byCode: Record<string, Record<str
   return `<h3>By ${itemTitle(ctx, group)}</h3>${figure(
     ctx,
     missingHeatmap(title, description, rows, columns, cells),
-    'Cells show percent missing; hover a cell for the counts. The shading runs from 0 to the largest percent (at least 10).',
+    'Cells show the percent of cells missing other than by a valid skip (not-applicable), which follows the routing; hover a cell for the counts. The shading runs from 0 to the largest percent (at least 10). Free-text items are left out of the picture.',
     alt,
   )}`;
+}
+
+function isFreeText(ctx: Ctx, name: string): boolean {
+  const item = ctx.item(name);
+  return item !== undefined && item.type === 'text' && item.codes.length === 0 && item.role !== 'id';
 }
 
 function recordMissing(ctx: Ctx): string {

@@ -10,12 +10,34 @@ import { categoryKeys } from './items.ts';
 export function pairsSection(ctx: Ctx): string {
   const pairs = ctx.input.describe.pairs;
   if (pairs.length === 0) return '';
-  return `<section id="pairs"><h2 class="section-title">Pairs</h2><div class="cards">${pairs.map((p, k) => pairCard(ctx, p, k)).join('')}</div></section>`;
+  const cap = ctx.options.maxPairCards;
+  const shown = pairs.slice(0, cap);
+  const more = pairs.length > cap ? `<p class="note">${esc(`The first ${cap} of ${pairs.length} pairs are drawn below; the table lists them all.`)}</p>` : '';
+  return `<section id="pairs"><h2 class="section-title">Pairs</h2><section class="block"><h3>Overview</h3>${more}${overview(ctx, pairs)}</section><div class="cards">${shown.map((p, k) => pairCard(ctx, p, k)).join('')}</div></section>`;
+}
+
+/** One line per pair: kind, n and its headline association statistic. */
+function overview(ctx: Ctx, pairs: readonly PairDescription[]): string {
+  const cap = ctx.options.maxPairCards;
+  const rows = pairs.map((p, k) => {
+    const name = `<code>${esc(p.x)}</code> &times; <code>${esc(p.y)}</code>`;
+    const link = k < cap ? `<a href="#pair-${k + 1}">${name}</a>` : name;
+    const stat =
+      p.kind === 'categorical-categorical'
+        ? `Cramer's V ${num(p.cramersV)}, chi-square ${num(p.chiSquare)} (df ${num(p.df)}, p ${formatP(p.p)})`
+        : p.kind === 'continuous-continuous'
+          ? `Pearson's r ${num(p.pearson)}, Spearman's rho ${num(p.spearman)}, ${num(p.bivariateOutliers.length)} bivariate outliers`
+          : `eta squared ${num(p.etaSquared)} over ${num(p.groups.length)} groups`;
+    return [link, esc(p.kind), num(p.n), esc(stat)];
+  });
+  return table({ head: ['pair', 'kind', 'n', 'association'], numeric: [2], rows, className: 'wide' });
 }
 
 function pairCard(ctx: Ctx, p: PairDescription, k: number): string {
   const body = p.kind === 'categorical-categorical' ? categorical(ctx, p) : p.kind === 'continuous-continuous' ? continuous(ctx, p) : mixed(ctx, p);
-  return `<article class="card" id="pair-${k + 1}"><header><h3>${itemTitle(ctx, p.x)} &times; ${itemTitle(ctx, p.y)}</h3><span class="tags"><span class="tag">${esc(p.kind)}</span><span class="tag">n = ${num(p.n)} (both valid)</span></span></header>${body}</article>`;
+  const conv = Object.entries(p.conventions ?? {});
+  const conventions = conv.length > 0 ? `<h4>Conventions</h4><ul class="plain conventions">${conv.map(([c, v]) => `<li><strong>${esc(c)}</strong>: ${esc(v)}</li>`).join('')}</ul>` : '';
+  return `<article class="card" id="pair-${k + 1}"><header><h3>${itemTitle(ctx, p.x)} &times; ${itemTitle(ctx, p.y)}</h3><span class="tags"><span class="tag">${esc(p.kind)}</span><span class="tag">n = ${num(p.n)} (both valid)</span></span></header>${body}${conventions}</article>`;
 }
 
 function statList(rows: Array<[string, string | undefined]>): string {

@@ -19,8 +19,8 @@ export function verdictSection(ctx: Ctx): string {
   const info = summary.findings.bySeverity.info ?? 0;
   const accepted = isAccepted(ctx);
   const sentence = accepted
-    ? `Accepted: no error findings in ${plural(summary.rows, 'row')}; ${plural(warnings, 'warning')} to review.`
-    : `Not accepted: ${plural(errors, 'error')} and ${plural(warnings, 'warning')} in ${plural(summary.rows, 'row')}.`;
+    ? `No error findings in ${plural(summary.rows, 'row')}; ${plural(warnings, 'warning')} to review.`
+    : `${plural(errors, 'error')} and ${plural(warnings, 'warning')} in ${plural(summary.rows, 'row')}.`;
   const fact = (dt: string, dd: string) => `<div><dt>${esc(dt)}</dt><dd>${dd}</dd></div>`;
   const cb = ctx.input.codebook;
   return `<section id="verdict" class="block verdict ${accepted ? 'accepted' : 'rejected'}" aria-label="Verdict">

@@ -1,11 +1,89 @@
+import { resolve } from 'node:path';
+import { loadCodebookOrThrow } from '@codeweir/codebook';
+import { checkDelivery, normalizeCheckOptions } from '@codeweir/check';
+import { describe, normalizeDescribeOptions } from '@codeweir/describe';
+import { openDelivery, type Delivery, type RowBatch } from '@codeweir/read';
+import { renderReport } from '@codeweir/report';
+import { CodeweirError, writeFileAtomic } from '@codeweir/core';
 import type { CommandDef } from '../io.ts';
+import { createProgress, type Progress } from '../progress.ts';
 
+/** Counts rows as the one pass reads them, for the progress line. */
+function counted(d: Delivery, progress: Progress): Delivery {
+  return {
+    ...d,
+    batches: async function* (): AsyncGenerator<RowBatch> {
+      let rows = 0;
+      for await (const b of d.batches()) {
+        rows += b.count;
+        progress.update(rows);
+        yield b;
+      }
+    },
+  };
+}
+
+/**
+ * `codeweir report <data> --codebook <file> -o <file.html> [--pair x:y ...] [--pairs all]
+ * [--weight <item>] [--quantiles 1..9] [--delimiter c] [--encoding e] [--quiet]`: one pass
+ * over the delivery (check, whose retained columns describe then summarises), then one
+ * self-contained HTML file written atomically. Exit 0 accepted, 1 error findings (the report
+ * is written in both cases) or an invalid codebook, 2 usage errors or unreadable input.
+ */
 export const reportCommand: CommandDef = {
-  command: 'report',
-  describe: '(being built)',
-  builder: (y) => y,
-  handler: async (_args, io) => {
-    io.stderr('codeweir: report is being built.\n');
-    return 2;
+  command: 'report <data>',
+  describe: 'Check and describe a delivery in one pass and write one self-contained HTML report.',
+  builder: (y) =>
+    y
+      .positional('data', { type: 'string', describe: 'the delivery (CSV or other delimited text)', demandOption: true })
+      .option('codebook', { type: 'string', demandOption: true, describe: 'the codebook JSON file' })
+      .option('o', { alias: 'output', type: 'string', demandOption: true, describe: 'the HTML file to write' })
+      .option('pair', { type: 'string', array: true, describe: 'a pair of items to summarise together, as x:y (repeatable)' })
+      .option('pairs', { type: 'string', describe: "'all' for every pair of described items" })
+      .option('weight', { type: 'string', describe: "weight item (default: the codebook's weight item)" })
+      .option('quantiles', { type: 'string', describe: 'Hyndman-Fan quantile type, 1 to 9 (default 7)' })
+      .option('delimiter', { type: 'string', describe: 'field delimiter (detected when absent)' })
+      .option('encoding', { type: 'string', describe: 'utf-8 (default), windows-1252, latin1, utf-16le, utf-16be' })
+      .option('quiet', { type: 'boolean', default: false, describe: 'no progress on stderr' }),
+  handler: async (args, io) => {
+    // Every option is checked before any file is read, so a typo fails at once.
+    const pairsFlag = args.pairs;
+    if (pairsFlag !== undefined && pairsFlag !== 'all') {
+      throw new CodeweirError('CW_USAGE', `--pairs takes 'all', got ${JSON.stringify(pairsFlag)}; name single pairs with --pair x:y.`);
+    }
+    const out = String(args.o);
+    if (!/\.html?$/i.test(out)) throw new CodeweirError('CW_USAGE', `-o takes the path of an .html file, got ${out}.`);
+    const describeOptions = normalizeDescribeOptions({
+      quantileType: args.quantiles,
+      weight: args.weight,
+      pairs: pairsFlag === 'all' ? 'all' : ((args.pair as string[] | undefined) ?? []),
+    });
+    const checkOptions = normalizeCheckOptions({ quantileType: args.quantiles, delimiter: args.delimiter, encoding: args.encoding });
+    const data = String(args.data);
+    const dataPath = resolve(io.cwd, data);
+    const outPath = resolve(io.cwd, out);
+    if (outPath === dataPath) throw new CodeweirError('CW_USAGE', `-o names the delivery itself (${data}); choose another file for the report.`);
+
+    const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)));
+    const progress = createProgress(io, { label: 'reading rows', quiet: args.quiet === true });
+    try {
+      const opened = await openDelivery(dataPath, { delimiter: checkOptions.delimiter, encoding: checkOptions.encoding });
+      const result = await checkDelivery(counted(opened, progress), codebook, checkOptions);
+      result.summary.file = data;
+      progress.phase('describing');
+      const described = describe(result, codebook, describeOptions);
+      progress.phase('drawing charts');
+      const html = await renderReport({ check: result, describe: described, codebook, file: data });
+      await writeFileAtomic(outPath, html);
+      progress.done();
+      const errors = result.summary.findings.bySeverity.error ?? 0;
+      const warnings = result.summary.findings.bySeverity.warning ?? 0;
+      if (args.quiet !== true) {
+        io.stdout(`Report written to ${out}: ${errors === 0 ? 'accepted' : 'not accepted'} (${errors} error${errors === 1 ? '' : 's'}, ${warnings} warning${warnings === 1 ? '' : 's'}).\n`);
+      }
+      return errors > 0 ? 1 : 0;
+    } finally {
+      progress.done();
+    }
   },
 };
