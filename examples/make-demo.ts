@@ -44,8 +44,8 @@ export interface PlantedFault {
   severity: 'error' | 'warning';
   /** The cell as delivered; null for `ragged-row` and `rule-failed` (see `cells`). */
   value: string | null;
-  /** For `unbinned-value`: the code of the bin the raw quantity belongs to. */
-  suggestion?: number;
+  /** For `unbinned-value`: the code of the bin the raw quantity belongs to, as the findings log writes it. */
+  suggestion?: string;
   /** For `rule-failed`: the cells the rule reads, as delivered. */
   cells?: Record<string, string>;
   /** For `ragged-row`: how many fields the row has. */
@@ -519,7 +519,7 @@ export function buildDemo(options: DemoOptions = {}): DemoContent {
     const h = rows[r];
     const value = spec.plant(h);
     const f: PlantedFault = { row: r + 1, item: spec.item, rule: spec.rule, severity: spec.severity, value };
-    if (spec.suggestion !== undefined) f.suggestion = spec.suggestion;
+    if (spec.suggestion !== undefined) f.suggestion = String(spec.suggestion);
     if (spec.reads) f.cells = Object.fromEntries(spec.reads.map((c) => [c, h.cells[c]]));
     faults.push(f);
   }

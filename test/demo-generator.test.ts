@@ -67,7 +67,7 @@ describe('demo generator', () => {
         const bins = codebook.items.find((i) => i.name === f.item)?.codes ?? [];
         const raw = Number(f.value);
         const holding = bins.filter((c) => c.bin && raw >= c.bin.min && (c.bin.max === undefined || raw <= c.bin.max));
-        expect(holding.map((c) => c.code)).toEqual([f.suggestion]);
+        expect(holding.map((c) => String(c.code))).toEqual([f.suggestion]);
         expect(bins.some((c) => String(c.code) === f.value)).toBe(false);
       }
     }
