@@ -25,6 +25,7 @@ const R = RULE_NUMBER;
 const ST_VALID = 0;
 const ST_MISSING = 1;
 const ST_INVALID = 2;
+const ST_ABSENT = 3;
 /** Group key of a row whose group cell is missing (or whose group column is absent). */
 export const GROUP_MISSING = '(missing)';
 /** Group key of a row whose group cell is invalid. */
@@ -182,6 +183,8 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
 
   // Per-row scratch.
   const state = new Uint8Array(nItems);
+  // An absent column is never valid, so expressions reading it are undetermined on every row.
+  for (let i = 0; i < nItems; i++) if (absent[i]) state[i] = ST_ABSENT;
   const kind = new Uint8Array(nItems);
   const codeIdx = new Int32Array(nItems);
   const num = new Float64Array(nItems);
