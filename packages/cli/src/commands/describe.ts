@@ -45,7 +45,10 @@ function itemLines(name: string, d: ItemDescription, date: boolean): string[] {
   } else if (d.mean !== undefined) {
     lines.push(`  mean ${num(d.mean)}, sd ${num(d.sd)}, min ${num(d.min)}, max ${num(d.max)}`);
     lines.push(`  median ${num(d.median)}, q1 ${num(d.q1)}, q3 ${num(d.q3)}, IQR ${num(d.iqr)}; skewness ${num(d.skewness)}, excess kurtosis ${num(d.kurtosis)}`);
-    if (d.cv !== undefined || d.geometricMean !== undefined) lines.push(`  cv ${num(d.cv)}, geometric mean ${num(d.geometricMean)}`);
+    if (d.level === 'ratio') {
+      const or = (v: number | undefined, key: string) => (v !== undefined ? num(v) : `withheld (${d.withheld[key] ?? 'not given'})`);
+      lines.push(`  cv ${or(d.cv, 'cv')}, geometric mean ${or(d.geometricMean, 'geometricMean')}`);
+    }
     if (d.outliers !== undefined) lines.push(`  outliers ${d.outliers}, extremes ${d.extremes} (Tukey fences ${num(d.fences!.lower)} and ${num(d.fences!.upper)})`);
     if (d.outlierNote) lines.push(`  note: ${d.outlierNote}`);
   }
