@@ -17,6 +17,7 @@ const jStat = (
   createRequire(import.meta.url)('jstat') as {
     jStat: {
       spearmancoeff(x: number[], y: number[]): number;
+      corrcoeff(x: number[], y: number[]): number;
       mean(a: number[]): number;
       stdev(a: number[], sample: boolean): number;
       percentile(a: number[], k: number, exclusive?: boolean): number;
@@ -370,10 +371,15 @@ describe('describePairs: which pairs, which rows', () => {
   });
 
   it('listwise uses only rows valid on every requested item and says so', () => {
-    const pairs = describePairs(result, cb, { quantileType: 7, pairs: [['site', 'age'], ['sat', 'income']], listwise: true });
+    const pairs = describePairs(result, cb, { quantileType: 7, pairs: [['site', 'age'], ['sat', 'income'], ['age', 'income']], listwise: true });
     // First principles: rows 3, 4, 5 and 7 each miss one of site, age, sat, income; rows 1, 2, 6, 8 remain.
-    expect(pairs.map((p) => p.n)).toEqual([4, 4]);
+    expect(pairs.map((p) => p.n)).toEqual([4, 4, 4]);
     expect(pairs.every((p) => p.listwise === true)).toBe(true);
+    // jStat 1.9.6 corrcoeff and spearmancoeff on rows 1, 2, 6 and 8 of age and income
+    const continuous = pairs[2] as PairContinuous;
+    expect(continuous.pearson).toBeCloseTo(jStat.corrcoeff([30, 41, 33, 52], [10, 20, 30, 9]), 12);
+    expect(continuous.spearman).toBeCloseTo(jStat.spearmancoeff([30, 41, 33, 52], [10, 20, 30, 9]), 12);
+    expect(continuous.sampleRows).toEqual([1, 2, 6, 8]);
   });
 
   it('keeps the requested order and describes a:b and b:a once', () => {
