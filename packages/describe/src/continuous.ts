@@ -105,7 +105,7 @@ export function describeContinuous(
     else withhold(d.withheld, ['cv'], n < 2 ? REASON.tooFewSd : 'the mean is not positive');
     const gm = geometricMean(sorted);
     if (Number.isFinite(gm)) d.geometricMean = gm;
-    else withhold(d.withheld, ['geometricMean'], `the geometric mean needs every value > 0 (the smallest is ${d.min})`);
+    else withhold(d.withheld, ['geometricMean'], `the geometric mean needs every value > 0; the smallest is ${d.min}`);
   }
 
   if (weights) {
