@@ -45,15 +45,16 @@ function isStrayControl(c: number): boolean {
 }
 
 /**
- * True when the sample looks like binary rather than text: more than 5 % of its characters are
- * NUL or other C0 controls (our own threshold: random bytes give about 11 %, text nearly 0 %).
- * A few NUL bytes inside otherwise normal text do not trip it; those are kept as U+0000.
+ * True when the sample looks like binary rather than text: more than 8 and more than 5 % of its
+ * characters are NUL or other C0 controls (our own threshold: random bytes give about 11 %,
+ * text nearly 0 %). A few NUL bytes inside otherwise normal text do not trip it; those are kept
+ * as U+0000 in their fields.
  */
 export function looksBinary(sample: string): boolean {
   if (sample.length === 0) return false;
   let stray = 0;
   for (let i = 0; i < sample.length; i++) if (isStrayControl(sample.charCodeAt(i))) stray++;
-  return stray > 0.05 * sample.length;
+  return stray > 8 && stray > 0.05 * sample.length;
 }
 
 /** The row terminator: CR alone only when the sample has CRs and no LF at all. */

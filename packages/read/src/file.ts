@@ -30,7 +30,8 @@ export interface Layout {
 
 const SAMPLE_BYTES = 64 * 1024;
 
-function fsError(e: unknown, file: string): CodeweirError {
+/** The CodeweirError for a failed stat, open or read of a data file (exit code 2). */
+export function fsError(e: unknown, file: string): CodeweirError {
   const code = (e as NodeJS.ErrnoException).code;
   if (code === 'ENOENT' || code === 'ENOTDIR') {
     return new CodeweirError('CW_FILE_NOT_FOUND', `The data file ${file} does not exist.`, { file, cause: e });
