@@ -6,7 +6,7 @@
  */
 import { describe, it, expect } from 'vitest';
 import { readFileSync } from 'node:fs';
-import { codebook, run } from './helpers.ts';
+import { codebook, run, idItem } from './helpers.ts';
 
 interface Sample {
   x: number[];
@@ -17,7 +17,7 @@ const P25 = oracle.probs.indexOf(0.25);
 const P75 = oracle.probs.indexOf(0.75);
 
 const cb = codebook([
-  { name: 'id', label: 'Record', role: 'id', type: 'integer' },
+  idItem,
   { name: 'x', label: 'Quantity', type: 'decimal', level: 'ratio', missing: [{ code: -99999, kind: 'refused' }] },
 ]);
 

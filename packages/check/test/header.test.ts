@@ -2,10 +2,10 @@ import { describe, it, expect } from 'vitest';
 import { check } from '../src/index.ts';
 import { readDeliveryText } from '@codeweir/read';
 import { checkDelivery } from '../src/index.ts';
-import { codebook, where } from './helpers.ts';
+import { codebook, where, idItem } from './helpers.ts';
 
 const cb = codebook([
-  { name: 'id', label: 'Record', role: 'id', type: 'integer' },
+  idItem,
   { name: 'a', label: 'A', type: 'integer', level: 'ratio' },
   { name: 'b', label: 'B', type: 'integer', level: 'ratio' },
 ]);

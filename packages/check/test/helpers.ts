@@ -24,3 +24,19 @@ export function where(result: CheckResult, rule: Finding['rule']): Array<[number
 export function missingOf(result: CheckResult, item: string): number {
   return Object.values(result.summary.items[item]!.missing).reduce((a, b) => a + (b ?? 0), 0);
 }
+
+/** An integer id item. */
+export const idItem = { name: 'id', label: 'Record', role: 'id', type: 'integer' };
+
+/** A yes/no item with a refused code: the controlling item of routing tests. */
+export const employedItem = {
+  name: 'employed',
+  label: 'Worked last week',
+  type: 'integer',
+  level: 'nominal',
+  codes: [
+    { code: 1, label: 'Yes' },
+    { code: 2, label: 'No' },
+  ],
+  missing: [{ code: -9, kind: 'refused' }],
+};

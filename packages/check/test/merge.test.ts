@@ -6,24 +6,14 @@
 import { describe, it, expect } from 'vitest';
 import type { RowBatch } from '@codeweir/read';
 import { createPass, mergePartials, finalize, detachPartial, attachPartial } from '../src/index.ts';
-import { codebook } from './helpers.ts';
+import { codebook, idItem, employedItem } from './helpers.ts';
 
 const cb = codebook(
   [
-    { name: 'id', label: 'Record', role: 'id', type: 'integer' },
+    idItem,
     { name: 'team', label: 'Team', role: 'group', type: 'integer', level: 'nominal', codes: [1, 2, 3].map((c) => ({ code: c, label: `Team ${c}` })) },
     { name: 'zone', label: 'Zone', role: 'group', type: 'text' },
-    {
-      name: 'employed',
-      label: 'Worked',
-      type: 'integer',
-      level: 'nominal',
-      codes: [
-        { code: 1, label: 'Yes' },
-        { code: 2, label: 'No' },
-      ],
-      missing: [{ code: -9, kind: 'refused' }],
-    },
+    employedItem,
     { name: 'hours', label: 'Hours', type: 'integer', level: 'ratio', range: { min: 0, max: 168 }, expect: { max: 80 }, askedWhen: 'employed == 1', missing: [{ code: -7, kind: 'not-applicable' }] },
     { name: 'phone', label: 'Phone', type: 'text', unique: true },
     { name: 'w', label: 'Weight', role: 'weight', type: 'decimal', level: 'ratio', range: { min: 0 } },

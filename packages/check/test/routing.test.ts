@@ -4,21 +4,11 @@
  * variable is missing or invalid on a row is undetermined there (counted, not a finding).
  */
 import { describe, it, expect } from 'vitest';
-import { codebook, run, where } from './helpers.ts';
+import { codebook, run, where, idItem, employedItem } from './helpers.ts';
 
 const items = [
-  { name: 'id', label: 'Record', role: 'id', type: 'integer' },
-  {
-    name: 'employed',
-    label: 'Worked last week',
-    type: 'integer',
-    level: 'nominal',
-    codes: [
-      { code: 1, label: 'Yes' },
-      { code: 2, label: 'No' },
-    ],
-    missing: [{ code: -9, kind: 'refused' }],
-  },
+  idItem,
+  employedItem,
   {
     name: 'hours',
     label: 'Hours worked',
@@ -82,7 +72,7 @@ describe('routing', () => {
 describe('cross-item rules', () => {
   const cb = codebook(
     [
-      { name: 'id', label: 'Record', role: 'id', type: 'integer' },
+      idItem,
       { name: 'size', label: 'Household size', type: 'integer', level: 'ratio', missing: [{ code: -9, kind: 'refused' }] },
       { name: 'kids', label: 'Children', type: 'integer', level: 'ratio', missing: [{ code: -9, kind: 'refused' }] },
       { name: 'pupils', label: 'Children at school', type: 'integer', level: 'ratio' },

@@ -3,9 +3,9 @@
  * the codebook contract's definitions (codebook.md, interface.md), stated beside each case.
  */
 import { describe, it, expect } from 'vitest';
-import { codebook, run, where, missingOf } from './helpers.ts';
+import { codebook, run, where, missingOf, idItem } from './helpers.ts';
 
-const id = { name: 'id', label: 'Record', role: 'id', type: 'integer' };
+const id = idItem;
 const sex = {
   name: 'sex',
   label: 'Sex',
