@@ -6,12 +6,14 @@
  * subtract as whole days). The function `date("YYYY-MM-DD")` gives that same day number, for
  * comparisons with a fixed day: `visit_date >= date("2026-03-01")`.
  *
- * Each expression is parsed and type-checked once at load; evaluation converts plain JS numbers
- * to the library's `int` representation (BigInt) for int variables only.
+ * Each expression is parsed and type-checked once at load. Expressions made of comparisons and
+ * logic run as generated JavaScript (`cel-fast.ts`); the rest run in the library, with plain JS
+ * numbers converted to its `int` representation (BigInt) for int variables.
  */
 import { Environment, ParseError, type ASTNode } from '@marcbachmann/cel-js';
 import type { CompiledExpression, ItemType } from './compiled.ts';
 import { didYouMean, problem, type CodebookProblem } from './problems.ts';
+import { fastEvaluator } from './cel-fast.ts';
 
 /** Deepest expression tree accepted; far beyond any hand-written condition. */
 export const MAX_EXPRESSION_DEPTH = 100;
@@ -114,8 +116,11 @@ function isStackOverflow(e: unknown): boolean {
   return e instanceof RangeError || (e instanceof Error && /call stack/i.test(e.message));
 }
 
-/** int conversion: BigInt() throws on fractions and non-finite numbers, which cannot be ints. */
-const toInt = (v: unknown): unknown => (typeof v === 'number' ? BigInt(v) : v);
+/**
+ * int conversion of whole numbers. Anything else is passed as it is, so the library raises its
+ * type error only if the expression actually reads the value (`false && a > 1` stays false).
+ */
+const toInt = (v: unknown): unknown => (Number.isInteger(v) ? BigInt(v as number) : v);
 
 /**
  * A function that copies the expression's variables out of a row's values into a fresh context
@@ -185,18 +190,25 @@ export function compileExpression(ctx: ExpressionContext, source: string, path: 
   const asInt = items.map((it) => CEL_TYPE[it.type] === 'int');
   const fn = parsed as (c: Record<string, unknown>) => unknown;
   const build = contextBuilder(variables, asInt);
+  const slow = (vars: Record<string, unknown>): boolean => {
+    try {
+      return fn(build(vars)) === true;
+    } catch {
+      // An evaluation error (a fraction given for an int, division by zero) counts as false.
+      return false;
+    }
+  };
+  const fast = fastEvaluator(
+    parsed.ast,
+    variables,
+    items.map((it) => CEL_TYPE[it.type]),
+    slow,
+  );
   const expression: CompiledExpression = {
     source,
     variables,
     variableIndices: items.map((it) => it.index),
-    evaluate(vars) {
-      try {
-        return fn(build(vars)) === true;
-      } catch {
-        // An evaluation error (a fraction given for an int, division by zero) counts as false.
-        return false;
-      }
-    },
+    evaluate: fast ?? slow,
   };
   return { expression, problems: [] };
 }
