@@ -5,8 +5,8 @@
  * is plain JavaScript and starts close to bare node. `node dist/codeweir.mjs <command>` is the
  * same CLI as `pnpm codeweir <command>`.
  */
-import { build } from 'esbuild';
-import { existsSync, statSync, readdirSync } from 'node:fs';
+import { build, type Plugin } from 'esbuild';
+import { copyFileSync, existsSync, mkdirSync, readFileSync, statSync, readdirSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -28,6 +28,22 @@ function newestSource(dir: string): number {
 }
 
 /**
+ * The codebook package reads its shipped JSON Schema next to its source folder; in the bundle
+ * the schema file sits next to the bundle instead.
+ */
+const schemaBesideBundle: Plugin = {
+  name: 'schema-beside-bundle',
+  setup(b) {
+    b.onLoad({ filter: /codebook[\\/]src[\\/]json-schema\.ts$/ }, (args) => {
+      const text = readFileSync(args.path, 'utf8');
+      const moved = text.replace("new URL('../codebook.schema.json', import.meta.url)", "new URL('./codebook.schema.json', import.meta.url)");
+      if (moved === text) throw new Error('bench/build.ts: the schema location in packages/codebook/src/json-schema.ts changed; update the build.');
+      return { contents: moved, loader: 'ts' };
+    });
+  },
+};
+
+/**
  * Builds both bundles unless they are newer than every source file under packages/.
  * Cost: about a second. Throws esbuild's error when a source file does not compile.
  */
@@ -41,9 +57,12 @@ export async function buildBundle(force = false): Promise<void> {
     target: 'node20',
     sourcemap: true,
     logLevel: 'warning' as const,
+    plugins: [schemaBesideBundle],
     // CommonJS dependencies bundled into ESM call require() for Node's built-ins.
     banner: { js: "import { createRequire as __cwRequire } from 'node:module'; const require = __cwRequire(import.meta.url);" },
   };
+  mkdirSync(join(ROOT, 'dist'), { recursive: true });
+  copyFileSync(join(ROOT, 'packages/codebook/codebook.schema.json'), join(ROOT, 'dist/codebook.schema.json'));
   await build({ ...common, entryPoints: [join(ROOT, 'packages/cli/src/bin.ts')], outfile: BUNDLE });
   await build({ ...common, entryPoints: [join(ROOT, 'packages/check/src/parallel.ts')], outfile: WORKER_BUNDLE });
 }

@@ -4,6 +4,7 @@
  */
 export type * from './types.ts';
 export { check, checkDelivery, checkFile } from './check.ts';
+export { checkFileParallel, type ParallelOptions } from './parallel.ts';
 export { createPass, detachPartial, attachPartial, SLOTS, GROUP_MISSING, GROUP_INVALID, type Pass, type PartialResult, type DetachedPartial, type GroupPartial, type IdColumn } from './pass.ts';
 export { mergePartials, finalize, sortAndCapFindings } from './finalize.ts';
 export { normalizeCheckOptions, type CheckOptions, type CheckOptionsInput } from './options.ts';

@@ -34,6 +34,12 @@ export interface ParallelOptions {
   minParallelBytes?: number;
   /** Ranges per thread; more ranges balance uneven start-up and row cost. Default 4. */
   rangesPerThread?: number;
+  /**
+   * Whether the calling thread checks ranges too while the workers start (default true). With
+   * false every range goes to a worker (`threads` of them) and the calling thread stays free,
+   * for a program that must keep responding.
+   */
+  useCallingThread?: boolean;
 }
 
 const MARKER = 'codeweir-check-worker';
@@ -115,7 +121,7 @@ function rebuildError(e: { code?: ErrorCode; message: string; codeweir: boolean 
  * @example const r = await checkFileParallel('wave2.csv', codebook, { threads: 2 });
  */
 export async function checkFileParallel(path: string, codebook: CompiledCodebook, rawOptions: CheckOptionsInput & ParallelOptions = {}): Promise<CheckResult> {
-  const { threads: rawThreads, minParallelBytes, rangesPerThread, ...rest } = rawOptions;
+  const { threads: rawThreads, minParallelBytes, rangesPerThread, useCallingThread, ...rest } = rawOptions;
   const options = normalizeCheckOptions(rest as CheckOptionsInput);
   const threads = rawThreads === undefined ? availableParallelism() : Number(rawThreads);
   if (!Number.isInteger(threads) || threads < 1) throw new CodeweirError('CW_USAGE', `--threads takes a whole number of at least 1, got ${String(rawThreads)}.`);
@@ -163,14 +169,15 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
     });
 
   const served: Promise<void>[] = [];
-  for (let t = 1; t < Math.min(threads, ranges.length); t++) {
+  const caller = useCallingThread ?? true;
+  for (let t = caller ? 1 : 0; t < Math.min(threads, ranges.length); t++) {
     const w = new Worker(entry.file, { eval: entry.eval, workerData: init });
     workers.push(w);
     served.push(serveWorker(w));
   }
   // The calling thread works through the queue too, from the front, while the workers start.
   try {
-    while (!failure && next < ranges.length) {
+    while (caller && !failure && next < ranges.length) {
       const index = next++;
       partials[index] = await passOverRange(path, ranges[index]!, codebook, options);
     }

@@ -64,7 +64,8 @@ function csvText(n: number): string {
     const team = i % 23 === 0 ? '9' : String((i % 3) + 1);
     const trips = i % 13 === 0 ? '9' : String((i % 3) + 1); // 9 is a raw count: unbinned
     const note = `"line ${i}\nsecond, ""quoted"" part${i % 5 === 0 ? '\r\nthird' : ''}"`;
-    const w = i % 31 === 0 ? 'x' : String(100 + ((i * 37) % 400) / 4);
+    // Weights lie in 100 to 200; 5000 is far beyond the upper Tukey fence (q3 + 3 IQR is below 500).
+    const w = i % 31 === 0 ? 'x' : i % 97 === 0 ? '5000' : String(100 + ((i * 37) % 400) / 4);
     lines.push([id, team, emp, i % 41 === 0 ? '4.5' : hours, trips, note, phone, i % 53 === 0 ? '-1' : w].join(','));
   }
   return lines.join('\n') + '\n';
@@ -103,7 +104,7 @@ describe('checkFileParallel', () => {
     const records = parse(text, { columns: false });
     expect(single.summary.rows).toBe(records.length - 1);
     // The data plant these rules (see csvText); each must have fired for the comparison to mean something.
-    for (const rule of ['not-a-code', 'unbinned-value', 'not-an-integer', 'not-a-number', 'impossible', 'implausible', 'duplicate-id', 'answered-when-skipped', 'rule-failed', 'outlier']) {
+    for (const rule of ['not-a-code', 'unbinned-value', 'not-an-integer', 'not-a-number', 'impossible', 'implausible', 'duplicate-id', 'answered-when-skipped', 'rule-failed', 'extreme']) {
       expect(single.summary.findings.byRule[rule as 'not-a-code'] ?? 0, rule).toBeGreaterThan(0);
     }
   });
@@ -126,6 +127,10 @@ describe('checkFileParallel', () => {
     same(await checkFileParallel(file, cb, { ...opts, threads: 1 }), single);
     same(await checkFileParallel(file, cb, { ...opts, threads: 2 }), single);
     same(await checkFileParallel(file, cb, { ...opts, threads: 3 }), single);
+  });
+
+  it('gives the same result when the worker threads do every range (partials cross threads, arrays transferred)', async () => {
+    same(await checkFileParallel(file, cb, { minParallelBytes: 0, rangesPerThread: 4, threads: 2, useCallingThread: false }), single);
   });
 
   it('reports a malformed file with the same error (code, line, column) as one thread', async () => {
