@@ -79,8 +79,9 @@ function isNode(x: unknown): x is ASTNode {
 }
 
 /** Depth of the tree and the item names read (`id` nodes), in source order. Iterative. */
-function inspect(root: ASTNode): { depth: number; ids: Array<{ name: string; start: number }> } {
+function inspect(root: ASTNode): { depth: number; ids: Array<{ name: string; start: number }>; dates: Array<{ text: string; start: number }> } {
   const ids: Array<{ name: string; start: number }> = [];
+  const dates: Array<{ text: string; start: number }> = [];
   let depth = 0;
   const stack: Array<[unknown, number]> = [[root, 1]];
   while (stack.length > 0) {
@@ -93,9 +94,15 @@ function inspect(root: ASTNode): { depth: number; ids: Array<{ name: string; sta
     depth = Math.max(depth, d);
     if (x.op === 'id') ids.push({ name: x.args as string, start: x.start });
     else if (x.op !== 'value') stack.push([x.args, d + 1]);
+    if (x.op === 'call') {
+      const [fn, args] = x.args as [string, ASTNode[]];
+      const a = args[0];
+      if (fn === 'date' && args.length === 1 && a && a.op === 'value' && typeof a.args === 'string') dates.push({ text: a.args, start: a.start });
+    }
   }
   ids.sort((a, b) => a.start - b.start);
-  return { depth, ids };
+  dates.sort((a, b) => a.start - b.start);
+  return { depth, ids, dates };
 }
 
 function position(err: unknown): number | undefined {
@@ -159,8 +166,13 @@ export function compileExpression(ctx: ExpressionContext, source: string, path: 
     const summary = e instanceof ParseError ? e.summary : (e as Error).message.split('\n')[0]!;
     return { problems: [withChar(problem('cel-syntax', path, `CEL syntax error${at(position(e))}: ${summary}`), position(e))] };
   }
-  const { depth, ids } = inspect(parsed.ast);
+  const { depth, ids, dates } = inspect(parsed.ast);
   if (depth > MAX_EXPRESSION_DEPTH) return tooDeep();
+  // A fixed day that is not a calendar day would make every evaluation an error (false).
+  const badDate = dates.find((d) => daysSinceEpoch(d.text) === undefined);
+  if (badDate) {
+    return { problems: [withChar(problem('cel-bad-date', path, `date(${JSON.stringify(badDate.text)})${at(badDate.start)} is not a YYYY-MM-DD calendar day`), badDate.start)] };
+  }
   let result: ReturnType<ReturnType<Environment['parse']>['check']>;
   try {
     result = parsed.check();

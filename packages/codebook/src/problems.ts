@@ -53,6 +53,8 @@ export const PROBLEM_SEVERITY = {
   'cel-not-boolean': 'error',
   'cel-too-deep': 'error',
   'asked-when-self': 'error',
+  'asked-when-cycle': 'error',
+  'cel-bad-date': 'error',
   'duplicate-rule-id': 'error',
 } as const satisfies Record<string, Severity>;
 

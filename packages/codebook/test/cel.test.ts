@@ -48,7 +48,8 @@ describe('CEL types of items', () => {
   it('an evaluation error or a value that cannot be the declared type counts as false', () => {
     expect(compiled('hh_size / (district - 1) > 0').evaluate({ hh_size: 3, district: 1 })).toBe(false);
     expect(compiled('hh_size > 0').evaluate({ hh_size: 2.5 })).toBe(false);
-    expect(compiled('visit_date > date("not a day")').evaluate({ visit_date: 1 })).toBe(false);
+    expect(compiled('visit_date > date(head_name)').evaluate({ visit_date: 1, head_name: 'not a day' })).toBe(false);
+    expect(compiled('visit_date > date(head_name)').evaluate({ visit_date: 1, head_name: '1969-12-31' })).toBe(true);
   });
 
   it('lists the variables read, in first-use order, with their item indices', () => {
@@ -94,6 +95,11 @@ describe('CEL problems', () => {
     const p = problemOf('hh_size > ');
     expect(p.code).toBe('cel-syntax');
     expect(p.message).toMatch(/^CEL syntax error at character \d+: /);
+  });
+
+  it('a fixed day that is not a calendar day', () => {
+    const p = problemOf('visit_date > date("2026-13-01")');
+    expect(p).toMatchObject({ code: 'cel-bad-date', charIndex: 18 });
   });
 
   it('deep nesting never crashes', () => {

@@ -159,6 +159,25 @@ describe('expression checks', () => {
     expect(problemsAfter((cb) => (cb.items[5].askedWhen = 'school_km > 0.5 || hh_size > 1'))).toEqual(['asked-when-self /items/5/askedWhen']);
   });
 
+  it('routing that goes round in a circle', () => {
+    const p = lint(
+      (() => {
+        const cb = household();
+        cb.items[3].askedWhen = 'school_km > 0.0';
+        return cb;
+      })(),
+    ).problems;
+    expect(codesAndPaths(p)).toEqual(['asked-when-cycle /items/5/askedWhen']);
+    expect(p[0]!.message).toBe('routing goes round in a circle: "hh_size" -> "school_km" -> "hh_size" (each askedWhen reads the next item)');
+    // A chain without a circle is fine.
+    expect(problemsAfter((cb) => (cb.items[3].askedWhen = 'district == 1'))).toEqual([]);
+  });
+
+  it('a fixed day that is not a calendar day', () => {
+    expect(problemsAfter((cb) => (cb.rules[0].when = 'visit_date >= date("2026-02-30")'))).toEqual(['cel-bad-date /rules/0/when']);
+    expect(problemsAfter((cb) => (cb.rules[0].when = 'visit_date >= date("2026-02-28")'))).toEqual([]);
+  });
+
   it.each([
     ['5000 nested parentheses', '('.repeat(5000) + 'true' + ')'.repeat(5000)],
     ['5000 negations', '!'.repeat(5000) + 'true'],
