@@ -598,7 +598,7 @@ function parseArgs(argv: string[]): DemoOptions {
   return o;
 }
 
-if (process.argv[1] && import.meta.url === pathToFileURL(resolve(process.argv[1])).href) {
+async function main(): Promise<void> {
   try {
     const written = await makeDemo(parseArgs(process.argv.slice(2)));
     for (const p of written) process.stderr.write(`wrote ${p}\n`);
@@ -607,3 +607,6 @@ if (process.argv[1] && import.meta.url === pathToFileURL(resolve(process.argv[1]
     process.exitCode = isCodeweirError(e) ? e.exitCode : 2;
   }
 }
+
+// No top-level await, so the module also loads where it is required rather than imported.
+if (process.argv[1] && import.meta.url === pathToFileURL(resolve(process.argv[1])).href) void main();

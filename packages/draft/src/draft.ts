@@ -7,7 +7,7 @@
 import type { Delivery } from '@codeweir/read';
 import { CodeweirError } from '@codeweir/core';
 import { ColumnProfile } from './profile.ts';
-import { inferItem, missingLabel, type DraftGuess, type DraftItem, type DraftMissingCode } from './infer.ts';
+import { ID_NAME, inferItem, missingLabel, type DraftGuess, type DraftItem, type DraftMissingCode } from './infer.ts';
 import type { MissingGuess } from './missing.ts';
 
 export interface DraftOptions {
@@ -116,7 +116,8 @@ export class Drafter {
     this.options = normalizeOptions(options);
     const { names, renamed } = itemNames(header);
     this.renamed = renamed;
-    this.profiles = names.map((n) => new ColumnProfile(n, this.options.decimalComma));
+    // Only the first column and id-named ones can become the id, so only they pay for counting repeats.
+    this.profiles = names.map((n, i) => new ColumnProfile(n, this.options.decimalComma, i === 0 || ID_NAME.test(n)));
   }
 
   /** Adds one row given as `fields[start] .. fields[end - 1]` (a flat batch slice). */
@@ -184,8 +185,8 @@ export class Drafter {
  * Drafts a codebook from rows in memory: `header` names the columns, each row is an array of
  * cells. Cells are profiled trimmed, as a check reads them. Rules of each guess: see
  * `missing.ts` (missing codes, common practice) and `infer.ts` (type shares, codes, level,
- * role, pattern). Cost: one pass, memory bounded by at most 1,000 distinct values per column
- * plus the values of columns that stay unique (for the id guess). Throws CodeweirError
+ * role, pattern). Cost: one pass; memory at most 1,000 distinct values per column plus, for
+ * the first column and id-named ones, every distinct value (up to 1,000,000) for the id guess. Throws CodeweirError
  * CW_USAGE for bad options.
  * @example draftCodebook({ header: ['sex'], rows: [['1'], ['2'], ['1']] }).codebook.items[0].codes
  */

@@ -59,7 +59,8 @@ export const FRACTION_SHARE = 0.005;
 export const REPEAT_SHARE = 0.01;
 
 const CODE_LABEL = 'to confirm';
-const ID_NAME = /(^|[^a-z])id([^a-z]|$)/i;
+/** Names that suggest a record identifier. */
+export const ID_NAME = /(^|[^a-z])id([^a-z]|$)/i;
 const GROUP_NAME = /(^|[^a-z])(team|district|region|site|province|county|cluster|area|zone|village|ward|interviewer|enumerator|stratum|psu)s?([^a-z]|$)/i;
 const WEIGHT_NAME = /(^|[^a-z])(weight|wgt|wt)s?([^a-z]|$)/i;
 const COMMA_DECIMAL = /^[+-]?\d+,\d+$/;
@@ -169,7 +170,7 @@ export function inferItem(p: ColumnProfile, o: InferOptions, isFirst: boolean, i
   const coded = values !== undefined && values.length > 0 && values.length <= cap && validCells >= 2 * values.length;
 
   let role: Role = 'item';
-  const fewRepeats = p.filled > 0 && p.repeats <= REPEAT_SHARE * p.filled && p.blank <= REPEAT_SHARE * p.cells;
+  const fewRepeats = p.repeatsKnown && p.filled > 0 && p.repeats <= REPEAT_SHARE * p.filled && p.blank <= REPEAT_SHARE * p.cells;
   if (!idTaken && !coded && (type === 'text' || type === 'integer') && fewRepeats && p.filled > o.maxCodes && (isFirst || ID_NAME.test(p.name))) {
     role = 'id';
     const why = p.repeats === 0 ? 'every value is different' : `values almost never repeat (${plural(p.repeats, 'repeat')})`;

@@ -75,13 +75,24 @@ export class ColumnProfile {
   fractionExamples: string[] = [];
   /** Non-blank cells whose value occurred before in this column. */
   repeats = 0;
-  private seen: Set<string> | undefined = new Set();
+  /** Values seen so far, kept only for columns that may be the id (see `trackUnique`). */
+  private seen: Set<string> | undefined;
   /** Shape of text cells -> count (first MAX_SHAPES shapes). */
   shapes = new Map<string, number>();
 
-  constructor(name: string, decimalComma: boolean) {
+  /**
+   * `trackUnique`: count repeated values (for the id guess). It costs memory for every distinct
+   * value, so the draft asks it only of the columns that may become the id.
+   */
+  constructor(name: string, decimalComma: boolean, trackUnique = true) {
     this.name = name;
     this.decimalComma = decimalComma;
+    if (trackUnique) this.seen = new Set();
+  }
+
+  /** True when repeats were counted over every cell (the column was tracked and stayed within the limit). */
+  get repeatsKnown(): boolean {
+    return this.seen !== undefined;
   }
 
   add(raw: string): void {
