@@ -79,6 +79,6 @@ export async function checkDelivery(delivery: Delivery, codebook: CompiledCodebo
  */
 export async function checkFile(path: string, codebook: CompiledCodebook, rawOptions: CheckOptionsInput = {}): Promise<CheckResult> {
   const options = normalizeCheckOptions(rawOptions);
-  const delivery = await openDelivery(path, { delimiter: options.delimiter, encoding: options.encoding });
+  const delivery = await openDelivery(path, { delimiter: options.delimiter, encoding: options.encoding, maxFieldBytes: options.maxFieldBytes });
   return checkDelivery(delivery, codebook, options);
 }

@@ -17,6 +17,8 @@ export interface CheckOptions {
   /** Passed to the reader by checkFile. */
   delimiter?: string;
   encoding?: Encoding;
+  /** Passed to the reader by checkFile: the largest field in bytes. */
+  maxFieldBytes?: number;
   /** Rows per batch for array and record input. Default 4096. */
   batchRows: number;
 }
@@ -83,7 +85,9 @@ export function normalizeCheckOptions(raw: CheckOptionsInput = {}): CheckOptions
     encoding = canonical as Encoding;
   }
 
+  const maxFieldBytes = raw.maxFieldBytes === undefined ? undefined : positiveInteger('--max-field-bytes', raw.maxFieldBytes, 0);
+
   const batchRows = positiveInteger('batchRows', raw.batchRows, 4096);
 
-  return { maxFindingsPerRule, quantileType, decimalComma, maxPatternLength, unbinnedColumnShare, delimiter, encoding, batchRows };
+  return { maxFindingsPerRule, quantileType, decimalComma, maxPatternLength, unbinnedColumnShare, delimiter, encoding, maxFieldBytes, batchRows };
 }

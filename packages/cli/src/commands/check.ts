@@ -72,7 +72,7 @@ function withProgress(d: Delivery, io: Io): Delivery {
 /**
  * `codeweir check <data> --codebook <file> [--out <dir>] [--split-by <item>] [--json]
  * [--fail-on warning] [--max-findings-per-rule N] [--delimiter c] [--encoding e]
- * [--decimal-comma] [--quantiles N] [--quiet]`. Exit 0 when no finding is at error severity
+ * [--decimal-comma] [--quantiles N] [--max-field-bytes N] [--quiet]`. Exit 0 when no finding is at error severity
  * (with --fail-on warning: no warning either), 1 when there are error findings or the
  * codebook is invalid, 2 for usage errors and unreadable input.
  */
@@ -92,6 +92,7 @@ export const checkCommand: CommandDef = {
       .option('encoding', { type: 'string', describe: 'utf-8 (default), windows-1252, latin1, utf-16le, utf-16be' })
       .option('decimal-comma', { type: 'boolean', default: false, describe: 'decimals are written with a comma (1,5)' })
       .option('quantiles', { type: 'string', describe: 'Hyndman-Fan quantile type 1 to 9 for the outlier fences; default 7' })
+      .option('max-field-bytes', { type: 'string', describe: 'largest field allowed, in bytes (a larger one makes the file unreadable)' })
       .option('quiet', { type: 'boolean', default: false, describe: 'no progress on stderr' }),
   handler: async (args, io) => {
     const data = String(args.data);
@@ -101,6 +102,7 @@ export const checkCommand: CommandDef = {
       decimalComma: args['decimal-comma'] === true,
       delimiter: args.delimiter,
       encoding: args.encoding,
+      maxFieldBytes: args['max-field-bytes'],
     });
     const splitBy = args['split-by'] === undefined ? undefined : String(args['split-by']);
     if (splitBy !== undefined && args.out === undefined) throw new CodeweirError('CW_USAGE', '--split-by writes files, so it needs --out <dir>.');
@@ -109,7 +111,7 @@ export const checkCommand: CommandDef = {
       const groups = codebook.groupItems.map((g) => g.name);
       throw new CodeweirError('CW_USAGE', `--split-by takes a group item of the codebook${groups.length ? ` (${groups.join(', ')})` : ', which has none'}, got ${splitBy}.`);
     }
-    const opened = await openDelivery(resolve(io.cwd, data), { delimiter: options.delimiter, encoding: options.encoding });
+    const opened = await openDelivery(resolve(io.cwd, data), { delimiter: options.delimiter, encoding: options.encoding, maxFieldBytes: options.maxFieldBytes });
     const delivery = io.isTTY && args.quiet !== true && args.json !== true ? withProgress(opened, io) : opened;
     const result = await checkDelivery(delivery, codebook, options);
     result.summary.file = data;
