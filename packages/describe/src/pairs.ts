@@ -22,11 +22,12 @@ import {
   phi,
   quantileSorted,
   ranksAlongOrder,
-  sortOrder,
+  sortColumn,
   spearmanFromTable,
   tablePercents,
   tukeyFences,
   type QuantileType,
+  type SortedColumn,
 } from '@codeweir/stats';
 import type { GroupSummary, OrdinalPosition, PairCategorical, PairContinuous, PairDescription, PairMixed } from './types.ts';
 
@@ -50,7 +51,7 @@ export const MAHALANOBIS_PROBABILITY = 0.999;
 
 type Side = { item: CompiledItem; column: ItemColumn };
 type Coded = { item: CompiledItem; codes: Uint16Array };
-type Numeric = { item: CompiledItem; values: Float64Array; order: () => Uint32Array };
+type Numeric = { item: CompiledItem; values: Float64Array; sorted: () => SortedColumn };
 
 const CATEGORICAL_CONVENTIONS: Record<string, string> = {
   chiSquare: 'Pearson chi-square without continuity correction; codes with no valid pair are dropped from the test (df over occupied rows and columns) and kept in the table',
@@ -104,17 +105,17 @@ export function describePairs(result: CheckResult, codebook: CompiledCodebook, o
   const include = options.listwise ? listwiseMask(result.store.rows, requested) : undefined;
   // Each continuous column is sorted once, however many pairs it is in: its order then serves
   // every pair's ranks and group quartiles in one linear walk.
-  const orders = new Map<string, Uint32Array>();
+  const sortedColumns = new Map<string, SortedColumn>();
   const numeric = (item: CompiledItem, values: Float64Array): Numeric => ({
     item,
     values,
-    order: () => {
-      let order = orders.get(item.name);
-      if (order === undefined) {
-        order = sortOrder(values);
-        orders.set(item.name, order);
+    sorted: () => {
+      let sorted = sortedColumns.get(item.name);
+      if (sorted === undefined) {
+        sorted = sortColumn(values);
+        sortedColumns.set(item.name, sorted);
       }
-      return order;
+      return sorted;
     },
   });
   return requested.map(([x, y]) => {
@@ -298,8 +299,8 @@ function describeContinuous(x: Numeric, y: Numeric, include: Uint8Array | undefi
   }
   // Ranks among the complete pairs only, from each column's cached order: Spearman's rho is
   // Pearson's r of these ranks (ties averaged).
-  const xRanks = ranksAlongOrder(xv, x.order(), complete);
-  const yRanks = ranksAlongOrder(yv, y.order(), complete);
+  const xRanks = ranksAlongOrder(x.sorted(), complete);
+  const yRanks = ranksAlongOrder(y.sorted(), complete);
   const xs = new Float64Array(n);
   const ys = new Float64Array(n);
   const rxs = new Float64Array(n);
@@ -385,11 +386,11 @@ function describeMixed(c: Coded, v: Numeric, quantileType: QuantileType, include
   const buffer = new Float64Array(n);
   const fill = start.slice();
   // Walking the continuous column in ascending order fills every group already sorted.
-  const order = v.order();
+  const { order, sorted } = v.sorted();
   for (let i = 0; i < order.length; i++) {
     const r = order[i];
     const g = codes[r];
-    if (g !== 0 && g <= k && (include === undefined || include[r] === 1)) buffer[fill[g]++] = values[r];
+    if (g !== 0 && g <= k && (include === undefined || include[r] === 1)) buffer[fill[g]++] = sorted[i];
   }
   const segments: Float64Array[] = [];
   const groups: GroupSummary[] = c.item.codes.map((code, i) => {

@@ -5,7 +5,7 @@ export { tukeyFences, OUTLIER_MULTIPLIER, EXTREME_MULTIPLIER, type Fences } from
 // Moments
 export { Moments } from './moments.ts';
 // Ranks and correlation
-export { averageRanks, sortOrder, ranksAlongOrder } from './ranks.ts';
+export { averageRanks, sortColumn, ranksAlongOrder, type SortedColumn } from './ranks.ts';
 export { coMoments, pearson, pearsonFromMoments, type CoMoments } from './pearson.ts';
 export { spearman, spearmanFromTable } from './spearman.ts';
 export { mahalanobisSquared, mahalanobisCutoff, bivariateOutliers, type BivariateOutliers } from './mahalanobis.ts';

@@ -14,23 +14,33 @@
  * @example averageRanks([10, 20, 20, 30]) // Float64Array [1, 2.5, 2.5, 4]
  */
 export function averageRanks(values: ArrayLike<number>): Float64Array {
-  return ranksAlongOrder(values, sortOrder(values));
+  return ranksAlongOrder(sortColumn(values));
+}
+
+/** A column's non-NaN values in ascending order, with the position each came from. */
+export interface SortedColumn {
+  /** Number of entries of the column, NaN included. */
+  length: number;
+  /** Positions of the non-NaN entries, ascending by value (stable: ties keep position order). */
+  order: Uint32Array;
+  /** The values in that order: sorted[k] = values[order[k]]. */
+  sorted: Float64Array;
 }
 
 /**
- * Positions of the non-NaN entries of `values`, in ascending order of value (stable: equal values
- * keep their position order). Sorting once and reusing the order lets a caller rank many subsets
- * of one column (pairwise-complete rows of different pairs) in linear time each.
+ * Sorts the non-NaN entries of `values` and keeps the position each came from. Sorting once and
+ * reusing the result lets a caller rank many subsets of one column (the pairwise-complete rows
+ * of different pairs) or split it into sorted groups in one linear walk each.
  *
- * Convention: numeric order, -0 equal to 0, NaN left out.
+ * Convention: numeric order, -0 equal to 0 (stored as 0), NaN left out, stable.
  * Cost: O(n) time and about 24 bytes per value: an LSD radix sort (four 16-bit passes over the
  * IEEE 754 bits, passes where every value shares the digit skipped) carries each position along,
  * without comparator callbacks (a comparator sort of positions is several times slower than the
  * native value sort on a million values). Throws nothing.
  *
- * @example sortOrder([30, NaN, 10, 20]) // Uint32Array [2, 3, 0]
+ * @example sortColumn([30, NaN, 10, 20]) // { length: 4, order: [2, 3, 0], sorted: [10, 20, 30] }
  */
-export function sortOrder(values: ArrayLike<number>): Uint32Array {
+export function sortColumn(values: ArrayLike<number>): SortedColumn {
   const n = values.length;
   const keys = new Float64Array(n);
   const positions = new Uint32Array(n);
@@ -43,30 +53,32 @@ export function sortOrder(values: ArrayLike<number>): Uint32Array {
     positions[m] = i;
     m++;
   }
-  return radixSortWithPositions(keys.subarray(0, m), positions.subarray(0, m));
+  const { order, sorted } = radixSortWithPositions(keys.subarray(0, m), positions.subarray(0, m));
+  return { length: n, order, sorted };
 }
 
 /**
- * Average ranks of the entries of `values` that `order` lists (ascending, as `sortOrder` gives
- * it) and, when `include` is given, whose include[position] is 1; every other entry gets NaN.
- * Ranks count only the included entries, so this ranks a subset without sorting it again.
+ * Average ranks of the entries of a sorted column (see `sortColumn`) whose include[position]
+ * is 1, or of all its non-NaN entries without `include`; every other position gets NaN. Ranks
+ * count only the included entries, so this ranks a subset without sorting it again.
  *
  * Convention: 1-based average ranks for ties, equality by === (so -0 equals 0).
  * Cost: O(n) (one walk along the order). Throws nothing.
  *
- * @example ranksAlongOrder([30, 10, 20], Uint32Array.of(1, 2, 0), Uint8Array.of(1, 0, 1)) // [2, NaN, 1]
+ * @example ranksAlongOrder(sortColumn([30, 10, 20]), Uint8Array.of(1, 0, 1)) // [2, NaN, 1]
  */
-export function ranksAlongOrder(values: ArrayLike<number>, order: Uint32Array, include?: Uint8Array): Float64Array {
-  const ranks = new Float64Array(values.length).fill(NaN);
+export function ranksAlongOrder(column: SortedColumn, include?: Uint8Array): Float64Array {
+  const { order, sorted } = column;
+  const ranks = new Float64Array(column.length).fill(NaN);
   const m = order.length;
   let placed = 0;
   let k = 0;
   while (k < m) {
-    const v = values[order[k]];
+    const v = sorted[k];
     // Equal values are contiguous in the order; excluded entries may sit among them.
     let end = k;
     let tied = 0;
-    while (end < m && values[order[end]] === v) {
+    while (end < m && sorted[end] === v) {
       if (include === undefined || include[order[end]] === 1) tied++;
       end++;
     }
@@ -87,10 +99,10 @@ const LO = LITTLE_ENDIAN ? 0 : 1;
 const HI = LITTLE_ENDIAN ? 1 : 0;
 
 /**
- * Sorts NaN-free `keys` ascending (destroying them) and returns `positions` permuted alongside
- * (the same array or a new one).
+ * Sorts NaN-free `keys` ascending (reusing their memory) and returns them with `positions`
+ * permuted alongside.
  */
-function radixSortWithPositions(keys: Float64Array, positions: Uint32Array): Uint32Array {
+function radixSortWithPositions(keys: Float64Array, positions: Uint32Array): { order: Uint32Array; sorted: Float64Array } {
   const m = keys.length;
   let src: Uint32Array = new Uint32Array(keys.buffer, keys.byteOffset, 2 * m);
   // Map IEEE 754 bits to unsigned integers in numeric order: negatives have every bit flipped
@@ -130,5 +142,15 @@ function radixSortWithPositions(keys: Float64Array, positions: Uint32Array): Uin
     [src, dst] = [dst, src];
     [order, nextOrder] = [nextOrder, order];
   }
-  return order;
+  // Undo the bit mapping so the sorted words read back as the original doubles.
+  for (let i = 0; i < m; i++) {
+    const hi = src[2 * i + HI];
+    if (hi & 0x80000000) {
+      src[2 * i + HI] = hi & 0x7fffffff;
+    } else {
+      src[2 * i + HI] = ~hi;
+      src[2 * i + LO] = ~src[2 * i + LO];
+    }
+  }
+  return { order, sorted: new Float64Array(src.buffer, src.byteOffset, m) };
 }

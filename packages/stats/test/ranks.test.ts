@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { averageRanks, ranksAlongOrder, sortOrder } from '../src/ranks.ts';
+import { averageRanks, ranksAlongOrder, sortColumn } from '../src/ranks.ts';
 import { RB } from './bivariate-oracle.ts';
 import { seeded } from './oracle.ts';
 
@@ -42,17 +42,28 @@ describe('averageRanks', () => {
   });
 });
 
-describe('sortOrder and ranksAlongOrder', () => {
+describe('sortColumn and ranksAlongOrder', () => {
   it('orders positions by value, stably, without NaN', () => {
     // First principles: 10 at 2, then the two 20s at 3 and 4 in position order, then 30 at 0.
-    expect(Array.from(sortOrder([30, NaN, 10, 20, 20]))).toEqual([2, 3, 4, 0]);
+    const column = sortColumn([30, NaN, 10, 20, 20]);
+    expect(Array.from(column.order)).toEqual([2, 3, 4, 0]);
+    expect(Array.from(column.sorted)).toEqual([10, 20, 20, 30]);
+    expect(column.length).toBe(5);
+  });
+
+  it('gives back the values themselves, negatives and extremes included', () => {
+    const values = [-1e308, 5e-324, -5e-324, -2.5, 0, -0, Infinity, -Infinity, 3.25, 1e-300];
+    const column = sortColumn(values);
+    // First principles: the sorted values are the input in numeric order, each at its recorded position.
+    expect(Array.from(column.sorted)).toEqual([...values].sort((a, b) => a - b).map((v) => v + 0));
+    column.order.forEach((position, k) => expect(values[position] === column.sorted[k]).toBe(true));
   });
 
   it('ranks a subset among itself, matching the counting definition on the subset', () => {
     const rnd = seeded(31);
     const values = Array.from({ length: 300 }, () => Math.floor(rnd() * 30));
     const include = Uint8Array.from(values, () => (rnd() < 0.6 ? 1 : 0));
-    const ranks = ranksAlongOrder(values, sortOrder(values), include);
+    const ranks = ranksAlongOrder(sortColumn(values), include);
     const subset = values.filter((_, i) => include[i] === 1);
     const expected = bruteForceRanks(subset);
     expect(Array.from(ranks).filter((_, i) => include[i] === 1)).toEqual(expected);
