@@ -9,7 +9,7 @@
  * Convention: average ranks for ties (a run of equal values at sorted positions i..j, 1-based,
  * all get (i + j) / 2); -0 and 0 are equal. NaN gets rank NaN and is not counted among the
  * ranked values.
- * Cost: O(n) time (see `sortOrder`) and about 32 bytes per value. Throws nothing.
+ * Cost: O(n) time (see `sortColumn`) and about 32 bytes per value. Throws nothing.
  *
  * @example averageRanks([10, 20, 20, 30]) // Float64Array [1, 2.5, 2.5, 4]
  */
