@@ -155,7 +155,9 @@ export class Tokenizer {
   line: number;
 
   constructor(private readonly opts: TokenizerOptions) {
-    if (opts.delimiter.length !== 1) throw new Error('delimiter must be one character');
+    if (opts.delimiter.length !== 1) {
+      throw new CodeweirError('CW_USAGE', `The delimiter must be one character, got ${JSON.stringify(opts.delimiter)}.`);
+    }
     this.delim = opts.delimiter;
     this.delimCode = opts.delimiter.charCodeAt(0);
     this.nl = opts.newline === 'cr' ? '\r' : '\n';
