@@ -24,16 +24,24 @@ export function makeDecoder(encoding: Encoding): ChunkDecoder {
     case 'latin1':
       // ISO-8859-1 proper: every byte is the code point of the same value.
       return { decode: (bytes) => Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('latin1') };
-    case 'windows-1252': {
-      const d = iconv.getDecoder('windows-1252', { stripBOM: false });
-      return {
-        decode: (bytes, final) => {
-          const s = d.write(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
-          return final ? s + (d.end() ?? '') : s;
-        },
-      };
-    }
+    case 'windows-1252':
+      return { decode: (bytes) => decodeWindows1252(bytes) };
   }
+}
+
+/** The 32 characters where windows-1252 differs from ISO-8859-1 (bytes 0x80-0x9F), from iconv-lite's table. */
+const CP1252_HIGH = iconv.decode(Buffer.from(Array.from({ length: 32 }, (_, i) => 0x80 + i)), 'windows-1252', { stripBOM: false });
+const C1 = /[\u0080-\u009f]/g;
+
+/**
+ * windows-1252 as a native ISO-8859-1 decode plus a fix-up of the bytes 0x80-0x9F, the only
+ * ones where the two differ: the same characters as iconv-lite's decoder, several times faster on
+ * large blocks. A single-byte code page never splits a character across blocks.
+ */
+export function decodeWindows1252(bytes: Uint8Array): string {
+  const s = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('latin1');
+  C1.lastIndex = 0;
+  return C1.test(s) ? s.replace(C1, (c) => CP1252_HIGH[c.charCodeAt(0) - 0x80] as string) : s;
 }
 
 /**

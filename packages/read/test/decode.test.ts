@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { isUtf8 } from 'node:buffer';
-import { encodedLength, firstInvalidUtf8, makeDecoder } from '../src/decode.ts';
+import iconv from 'iconv-lite';
+import { decodeWindows1252, encodedLength, firstInvalidUtf8, makeDecoder } from '../src/decode.ts';
 import { utf8Length } from '../src/tokenizer.ts';
 
 describe('UTF-8 handling against Node Buffer as the oracle', () => {
@@ -51,5 +52,18 @@ describe('UTF-8 handling against Node Buffer as the oracle', () => {
   it('throws on invalid UTF-8 instead of producing replacement characters', () => {
     // 0xFF never occurs in UTF-8 (RFC 3629).
     expect(() => makeDecoder('utf-8').decode(Uint8Array.from([0x61, 0xff]), true)).toThrow(TypeError);
+  });
+});
+
+describe('windows-1252 against iconv-lite as the oracle', () => {
+  it('decodes any bytes as iconv-lite does', () => {
+    fc.assert(
+      fc.property(fc.uint8Array({ maxLength: 64 }), (bytes) => {
+        expect(decodeWindows1252(bytes)).toBe(iconv.decode(Buffer.from(bytes), 'windows-1252', { stripBOM: false }));
+      }),
+      { numRuns: 500 },
+    );
+    const all = Uint8Array.from({ length: 256 }, (_, i) => i);
+    expect(decodeWindows1252(all)).toBe(iconv.decode(Buffer.from(all), 'windows-1252', { stripBOM: false }));
   });
 });
