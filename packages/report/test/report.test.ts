@@ -1,0 +1,258 @@
+import { describe, it, expect, beforeAll } from 'vitest';
+import { renderReport, escapeHtml, CONTENT_SECURITY_POLICY } from '../src/index.ts';
+import { fixture, PAYLOADS, WORDS } from './fixtures.ts';
+
+let plain: string;
+let hostile: string;
+let accepted: string;
+
+beforeAll(async () => {
+  [plain, hostile, accepted] = await Promise.all([
+    renderReport(fixture()),
+    renderReport(fixture({ hostile: true })),
+    renderReport(fixture({ accepted: true })),
+  ]);
+});
+
+/** The HTML of one item card, found by the item name in its heading. */
+function card(html: string, name: string): string {
+  const cards = html.split('<article class="card" id="item-').slice(1);
+  const found = cards.find((c) => c.includes(`<h3 id="item-${c.split('"')[0]}-h"><code>${escapeHtml(name)}</code></h3>`));
+  if (!found) throw new Error(`no card for ${name}`);
+  return found.split('</article>')[0]!;
+}
+
+/**
+ * Every attribute name of every tag. Attribute values in the report are always double-quoted
+ * (its own markup and vega's), so a value cannot hide a name from this scan.
+ */
+function attributeNames(html: string): string[] {
+  const names: string[] = [];
+  for (const tag of html.matchAll(/<[a-zA-Z][^\s>\/]*((?:\s+[^\s=\/>]+(?:="[^"]*")?)*)\s*\/?>/g)) {
+    for (const a of tag[1]!.matchAll(/\s+([^\s=\/>]+)(?:="[^"]*")?/g)) names.push(a[1]!);
+  }
+  return names;
+}
+
+/** Charts in a piece of HTML: each SVG's title text. */
+function chartTitles(html: string): string[] {
+  return [...html.matchAll(/<svg id="chart-\d+"[^>]*>(?:<title id="[^"]+">([^<]*)<\/title>)/g)].map((m) => m[1]!);
+}
+
+/** Category labels of the first chart's y axis in `html`, top to bottom (vega's document order). */
+function axisLabels(html: string): string[] {
+  const svg = html.slice(html.indexOf('<svg id="chart-'), html.indexOf('</svg>') + 6);
+  const yAxis = svg.slice(svg.indexOf('aria-label="Y-axis'));
+  const labels = yAxis.slice(yAxis.indexOf('role-axis-label'));
+  return [...labels.slice(0, labels.indexOf('</g>')).matchAll(/<text[^>]*>([^<]*)<\/text>/g)].map((m) => m[1]!);
+}
+
+describe('page shell', () => {
+  it('declares a CSP that forbids scripts and every network fetch', () => {
+    expect(plain).toContain(`<meta http-equiv="Content-Security-Policy" content="${CONTENT_SECURITY_POLICY}">`);
+    // First principles of CSP: default-src 'none' covers every fetch directive not named;
+    // the named ones only allow inline style and data: images, and script-src is 'none'.
+    expect(CONTENT_SECURITY_POLICY).toMatch(/^default-src 'none';/);
+    expect(CONTENT_SECURITY_POLICY).toContain("script-src 'none'");
+    expect(CONTENT_SECURITY_POLICY).not.toMatch(/https?:|\*/);
+  });
+
+  it('has no script element and no event-handler attribute at all', () => {
+    expect(attributeNames('<p class="a">x</p><img src="y" onerror="z">')).toEqual(['class', 'src', 'onerror']);
+    for (const html of [plain, hostile, accepted]) {
+      expect(/<script/i.test(html)).toBe(false);
+      expect(attributeNames(html).filter((n) => /^on/i.test(n))).toEqual([]);
+    }
+  });
+
+  it('references no http(s) resource: the only URIs are the SVG and XLink namespace names', () => {
+    for (const html of [plain, hostile]) {
+      const uris = [...html.matchAll(/https?:\/\/[^\s"'<>)]+/g)].map((m) => m[0]);
+      expect(uris.length).toBeGreaterThan(0);
+      expect(new Set(uris)).toEqual(new Set(['http://www.w3.org/2000/svg', 'http://www.w3.org/1999/xlink']));
+      // Each occurrence is an xmlns attribute value, never a src, href or url().
+      const inXmlns = [...html.matchAll(/xmlns(?::xlink)?="https?:\/\/[^"]+"/g)].length;
+      expect(inXmlns).toBe(uris.length);
+    }
+    // Links and paint references stay inside the page: fragment identifiers only.
+    expect(/\b(?:src|href)="(?!#)/.test(plain)).toBe(false);
+    expect(/url\((?!#)/.test(plain)).toBe(false);
+  });
+
+  it('has print styles', () => {
+    expect(/@media print \{[^]*break-inside: avoid/.test(plain)).toBe(true);
+  });
+});
+
+describe('sections', () => {
+  it('has every section for a delivery with findings, rules, groups and pairs', () => {
+    for (const id of ['verdict', 'header', 'findings', 'rules', 'missingness', 'items', 'pairs', 'conventions']) {
+      expect(plain).toContain(`id="${id}"`);
+      expect(plain).toContain(`<a href="#${id}">`);
+    }
+  });
+
+  it('states the verdict with codebook id, version, rows and the error and warning counts', () => {
+    const verdict = plain.slice(plain.indexOf('id="verdict"'), plain.indexOf('</section>', plain.indexOf('id="verdict"')));
+    expect(verdict).toContain('class="block verdict rejected"');
+    expect(verdict).toContain('<div class="badge">Not accepted</div>');
+    expect(verdict).toContain('2 errors and 0 warnings in 12 rows.');
+    expect(verdict).toContain('<code>hollow-reach-panel</code>');
+    expect(verdict).toContain('0.3.1');
+    expect(accepted).toContain('<div class="badge">Accepted</div>');
+    expect(accepted).toContain('No error findings in 12 rows; 0 warnings to review.');
+  });
+
+  it('lists header problems and the first rows of each rule with their suggestion', () => {
+    expect(plain).toContain('Columns the codebook does not know: <code>interviewer_note</code>');
+    expect(plain).toContain('id="rule-not-a-number"');
+    expect(plain).toContain(escapeHtml(WORDS.plain.findingMessage));
+    const unbinned = plain.slice(plain.indexOf('id="rule-unbinned-value"'));
+    expect(unbinned.slice(0, unbinned.indexOf('</table>'))).toMatch(/<th scope="col">suggestion<\/th>[^]*<code>3<\/code>/);
+  });
+
+  it('caps the findings shown per rule and says how many there are', async () => {
+    const input = fixture();
+    const extra = Array.from({ length: 8 }, (_, i) => ({ ...input.check.findings[0]!, row: 20 + i }));
+    input.check.findings.push(...extra);
+    input.check.summary.findings.byRule['not-a-number'] = 9;
+    const html = await renderReport(input, { findingsPerRule: 3 });
+    const section = html.slice(html.indexOf('id="rule-not-a-number"'));
+    expect(section).toContain('The first 3 of 9.');
+    const rows = section.slice(0, section.indexOf('</table>')).match(/<tr>/g) ?? [];
+    expect(rows.length).toBe(1 + 3); // header row + three findings
+  });
+
+  it('shows cross-item rules with passed, failed and undetermined counts', () => {
+    const rules = plain.slice(plain.indexOf('id="rules"'), plain.indexOf('</section>', plain.indexOf('id="rules"')));
+    expect(rules).toContain('<code>head-age</code>');
+    expect(rules).toContain(escapeHtml(WORDS.plain.ruleMessage));
+    expect(rules).toMatch(/<td class="num">10<\/td><td class="num">0<\/td><td class="num">2<\/td>/);
+  });
+
+  it('draws missingness as a heat map with counts in hover titles and in a table', () => {
+    const m = plain.slice(plain.indexOf('id="missingness"'), plain.indexOf('id="items"'));
+    expect(chartTitles(m)).toEqual(['Percent missing by team (Field team), valid skips not counted']);
+    // Team 2: one refusal among 4 sex cells = 25% (first principles: 1 / 4).
+    expect(m).toContain('<title>sex in Lowmarsh [2]: 25.0% (1 of 4 cells)</title>');
+    expect(m).toMatch(/<details class="alt"><summary>Table of this chart<\/summary>[^]*25\.0% <span class="note">\(1\/4\)<\/span>/);
+    // Free text (remarks) is in the table by kind but not in the picture.
+    expect(m).toContain('<code>remarks</code>');
+    expect(m).not.toContain('<title>remarks in');
+  });
+});
+
+describe('item cards', () => {
+  it('gives each item its level, label, statistics, withheld reasons and conventions', () => {
+    const age = card(plain, 'age');
+    expect(age).toContain('<span class="tag level">ratio</span>');
+    expect(age).toContain('<span class="label">Age</span>');
+    expect(age).toContain('<span class="tag">unit: years</span>');
+    expect(age).toContain(escapeHtml(WORDS.plain.question));
+    expect(age).toMatch(/<td>median<\/td><td class="num">40<\/td>/);
+    expect(age).toMatch(/<td>inner fences \(1\.5 x IQR\)<\/td><td class="num">19\.25 to 61\.25<\/td>/);
+    expect(age).toContain('<li><strong>frequencies</strong>: a frequency table of a ratio item is given as a histogram</li>');
+    expect(age).toContain(`<li><strong>sd</strong>: ${escapeHtml(WORDS.plain.convention)}</li>`);
+    expect(age).toContain('<li><strong>quantileType</strong>: Hyndman-Fan type 7 sample quantiles</li>');
+  });
+
+  it('groups withheld statistics that share a reason on one line', () => {
+    const team = card(plain, 'team');
+    expect(team).toContain('<li><strong>median</strong>: nominal categories have no order</li>');
+    expect(team).toContain(`<li><strong>mean</strong>: ${escapeHtml(WORDS.plain.reason)}</li>`);
+    const sex = card(plain, 'sex');
+    expect(sex).toContain('<li><strong>mean</strong>: nominal codes have no arithmetic meaning</li>');
+  });
+
+  it('states the quantile type where describe gave no per-item convention for it', () => {
+    expect(card(plain, 'visit_date')).toContain('<li><strong>quantiles</strong>: Hyndman-Fan type 7</li>');
+  });
+
+  it('draws one bar chart for nominal and ordinal items, histogram and box plot for interval and ratio, none for text', () => {
+    expect(chartTitles(card(plain, 'sex'))).toEqual(['sex (Sex): valid cells by category']);
+    expect(chartTitles(card(plain, 'edu'))).toEqual(['edu (Schooling): valid cells by category']);
+    expect(chartTitles(card(plain, 'trips'))).toEqual(['trips (Market trips): valid cells by category']);
+    expect(chartTitles(card(plain, 'age'))).toEqual(['age (Age): distribution', 'age (Age): box plot']);
+    expect(chartTitles(card(plain, 'visit_date'))).toEqual(['visit_date (Date of visit): distribution', 'visit_date (Date of visit): box plot']);
+    expect(chartTitles(card(plain, 'remarks'))).toEqual([]);
+    expect(card(plain, 'age')).toContain('Bins: Freedman-Diaconis, 7 bins of width 10;');
+  });
+
+  it('orders ordinal bars by the scale and nominal bars by code, or by frequency when asked', async () => {
+    expect(axisLabels(card(plain, 'edu')).slice(0, 4)).toEqual(['None', 'Primary', 'Secondary', 'Tertiary']);
+    // The fixture lists Male (code 2) first; code order puts Female (code 1) first.
+    expect(axisLabels(card(plain, 'sex')).slice(0, 2)).toEqual(['Female', 'Male']);
+    expect(card(plain, 'sex')).toContain('Bars in code order (the codebook order)');
+    const byFrequency = await renderReport(fixture(), { nominalOrder: 'frequency' });
+    expect(axisLabels(card(byFrequency, 'sex')).slice(0, 2)).toEqual(['Male', 'Female']);
+    expect(card(byFrequency, 'sex')).toContain('Bars by frequency, most frequent first');
+    // Ordinal items keep the scale order whatever the nominal order option says.
+    expect(axisLabels(card(byFrequency, 'edu')).slice(0, 4)).toEqual(['None', 'Primary', 'Secondary', 'Tertiary']);
+  });
+
+  it('shows ordinal medians as categories and date statistics as dates', () => {
+    const edu = card(plain, 'edu');
+    expect(edu).toMatch(/<td>median<\/td><td class="num">Secondary <span class="note">\[3\]<\/span><\/td>/);
+    expect(edu).toMatch(/<td>IQR \(scale steps\)<\/td><td class="num">1<\/td>/);
+    const date = card(plain, 'visit_date');
+    // 20514 days after 1970-01-01 is 2026-03-02 (first principles: 20514 x 86,400,000 ms as an ISO date).
+    expect(new Date(20514 * 86_400_000).toISOString().slice(0, 10)).toBe('2026-03-02');
+    expect(date).toMatch(/<td>minimum<\/td><td class="num">2026-03-02<\/td>/);
+    expect(date).toMatch(/<td>range<\/td><td class="num">10 days<\/td>/);
+  });
+
+  it('marks the extreme value in the box plot apart from the box', () => {
+    const age = card(plain, 'age');
+    const box = age.slice(age.indexOf('age (Age): box plot'));
+    // 91 lies beyond the outer fence 77: one extreme mark, no outlier mark.
+    expect(box.match(/aria-label="extreme"/g)?.length).toBe(1);
+    expect(box).not.toContain('aria-label="outlier"');
+    expect(box).toContain('whiskers to the most extreme values inside the inner fences');
+  });
+});
+
+describe('pairs', () => {
+  it('shows a contingency table with cell, row and column percents and a conditional bar chart', () => {
+    const pairs = plain.slice(plain.indexOf('id="pair-1"'));
+    const first = pairs.slice(0, pairs.indexOf('</article>'));
+    expect(chartTitles(first)).toEqual(['edu (Schooling) within each category of sex (Sex)']);
+    expect(first).toContain('2<span class="sub">row 40.0%</span><span class="sub">col 40.0%</span><span class="sub">cell 18.2%</span>');
+    expect(first).toContain('All 8 expected counts are below 5');
+  });
+
+  it('draws a scatter plot with the bivariate outlier marked, and side-by-side box plots', () => {
+    const second = plain.slice(plain.indexOf('id="pair-2"'), plain.indexOf('id="pair-3"'));
+    expect(chartTitles(second)).toEqual(['visit_date (Date of visit) against age (Age)']);
+    expect(second).toContain('1 bivariate outliers drawn as diamonds');
+    const third = plain.slice(plain.indexOf('id="pair-3"'));
+    expect(chartTitles(third.slice(0, third.indexOf('</article>')))).toEqual(['age (Age) by team (Field team)']);
+  });
+
+  it('lists every pair in the overview and draws cards only up to the cap', async () => {
+    const html = await renderReport(fixture(), { maxPairCards: 1 });
+    expect(html).toContain('The first 1 of 3 pairs are drawn below; the table lists them all.');
+    expect(html).toContain('id="pair-1"');
+    expect(html).not.toContain('id="pair-2"');
+  });
+});
+
+describe('escaping', () => {
+  it('keeps every string from the codebook and the delivery as text', () => {
+    const w = WORDS.hostile;
+    const inserted = [w.title, w.teamLabel(0), w.teamLabel(1), w.sexLabel, ...w.eduLabels, w.question, w.unit, w.ruleMessage, w.findingValue, w.findingMessage, w.findingId, w.reason, w.convention, w.unexpectedColumn, w.ageName];
+    for (const s of inserted) expect(hostile).toContain(escapeHtml(s));
+    for (const p of PAYLOADS) expect(hostile).not.toContain(p);
+    expect(/<img\b/i.test(hostile)).toBe(false);
+    expect(/<svg[^>]*\sonload/i.test(hostile)).toBe(false);
+  });
+
+  it('escapes strings inside the SVG that vega writes (axis labels, hover titles)', () => {
+    const svgs = [...hostile.matchAll(/<svg id="chart-\d+"[^]*?<\/svg>/g)].map((m) => m[0]);
+    expect(svgs.length).toBeGreaterThan(5);
+    const all = svgs.join('');
+    // vega escapes & < > in text and also " in attributes.
+    expect(all).toContain('&lt;script&gt;window.__pwned=1&lt;/script&gt;');
+    expect(all).toContain('&lt;img src=x onerror=&quot;window.__pwned=2&quot;&gt;');
+    for (const svg of svgs) expect(svg.slice(1).match(/<svg/g)).toBeNull();
+  });
+});
