@@ -56,6 +56,7 @@ export async function buildBundle(force = false): Promise<void> {
     format: 'esm' as const,
     target: 'node20',
     sourcemap: true,
+    minify: true,
     logLevel: 'warning' as const,
     plugins: [schemaBesideBundle],
     // CommonJS dependencies bundled into ESM call require() for Node's built-ins.

@@ -171,13 +171,15 @@ export function buildPeer(codebook: unknown, csvPath: string, extras: PeerSqlExt
   if (quartiles.length) queries.quartiles = `SELECT ${quartiles.join(',\n  ')} FROM cells`;
   if (idItem) {
     const id = q(idItem.name);
-    queries.duplicates = `SELECT coalesce(sum(n - 1), 0) AS "duplicateIds" FROM (SELECT count(*) AS n FROM delivery WHERE ${id} IS NOT NULL GROUP BY ${id} HAVING count(*) > 1)`;
+    classCols.push(`${id} AS "id|raw"`);
+    queries.duplicates = `SELECT coalesce(sum(n - 1), 0) AS "duplicateIds" FROM (SELECT count(*) AS n FROM cells WHERE "id|raw" IS NOT NULL GROUP BY "id|raw" HAVING count(*) > 1)`;
   }
   return {
     setup: [
-      `CREATE TABLE delivery AS SELECT * FROM read_csv(${lit(csvPath)}, header = true, all_varchar = true, delim = ',', quote = '"', escape = '"')`,
-      `CREATE TEMP TABLE typed AS SELECT ${typedCols.join(', ')} FROM delivery`,
-      `CREATE TEMP TABLE cells AS SELECT ${classCols.join(',\n  ')} FROM typed`,
+      // One scan of the file: every column read as text (as delivered), parsed once, classified,
+      // and only the classes, the valid values and the id kept.
+      `CREATE TEMP TABLE cells AS SELECT ${classCols.join(',\n  ')} FROM (SELECT ${typedCols.join(', ')} FROM ` +
+        `read_csv(${lit(csvPath)}, header = true, all_varchar = true, delim = ',', quote = '"', escape = '"'))`,
     ],
     queries,
   };
