@@ -37,7 +37,9 @@ section.block { background: var(--paper); border: 1px solid var(--rule); border-
 .facts dd { margin: 0; font-weight: 600; font-variant-numeric: tabular-nums; }
 table { border-collapse: collapse; font-variant-numeric: tabular-nums; margin: 4px 0 8px; }
 th, td { text-align: left; padding: 3px 10px 3px 0; border-bottom: 1px solid var(--rule); vertical-align: top; overflow-wrap: anywhere; }
-th { font-weight: 600; color: var(--muted); font-size: 0.85rem; }
+th { font-weight: 600; color: var(--muted); font-size: 0.85rem; overflow-wrap: normal; }
+.split { display: grid; grid-template-columns: minmax(260px, 1fr) 2fr; gap: 0 28px; }
+@media (max-width: 800px) { .split { grid-template-columns: 1fr; } }
 td.num, th.num { text-align: right; padding-left: 10px; }
 table.wide { width: 100%; }
 .sev { display: inline-block; min-width: 4.6em; font-size: 0.8rem; font-weight: 600; }

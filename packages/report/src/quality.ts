@@ -84,6 +84,7 @@ export function findingsSection(ctx: Ctx): string {
       ? ''
       : `<h3>By item</h3>${table({
           head: ['item', 'invalid cells', 'findings by rule'],
+          className: 'wide',
           numeric: [1],
           rows: items.map(([name, t]) => [
             itemTitle(ctx, name),
@@ -123,7 +124,7 @@ export function findingsSection(ctx: Ctx): string {
 
   return `<section id="findings" class="block"><h2>Findings</h2>
 <p>${esc(`${plural(summary.findings.total, 'finding')} under ${plural(rules.length, 'rule')}.`)}</p>
-<div class="stats"><div><h3>By rule</h3>${ruleTable}</div><div>${itemTable}</div></div>
+<div class="split"><div><h3>By rule</h3>${ruleTable}</div><div>${itemTable}</div></div>
 <h3>First rows of each rule</h3>${firstRows}</section>`;
 }
 
