@@ -1,3 +1,5 @@
+/// <reference lib="dom" />
+/// <reference lib="dom.iterable" />
 /**
  * The report in a real browser: Debian's headless Chromium driven by playwright-core (never a
  * browser download). Checks that charts render with visible marks, that the page logs no error
