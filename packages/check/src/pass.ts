@@ -149,7 +149,13 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
   const cap = options.maxFindingsPerRule;
 
   const present: number[] = [];
-  for (let i = 0; i < nItems; i++) if (hmap.positions[i]! >= 0) present.push(i);
+  // Group items first: their cells give the row's group keys, which the tallies of every other
+  // cell need, so each cell can be tallied as soon as it is classified.
+  const isGroup = new Uint8Array(nItems);
+  for (const g of codebook.groupItems) isGroup[g.index] = 1;
+  for (let i = 0; i < nItems; i++) if (hmap.positions[i]! >= 0 && isGroup[i]) present.push(i);
+  const nGroupPresent = present.length;
+  for (let i = 0; i < nItems; i++) if (hmap.positions[i]! >= 0 && !isGroup[i]) present.push(i);
   const presentIdx = Int32Array.from(present);
   const presentPos = Int32Array.from(present, (i) => hmap.positions[i]!);
   const nPresent = presentIdx.length;
@@ -274,23 +280,114 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     return true;
   };
 
+  let fields: string[] = [];
+  let f64Cols: Array<Float64Array | null> = [];
+  let u16Cols: Array<Uint16Array | null> = [];
+  let rowKeyData: Uint32Array[] = [];
+  const nGroups = groupStates.length;
+  const rowTallies: Float64Array[] = groupStates.map(() => tallies);
+
+  /** Classifies the k-th present cell of the row into the per-row scratch, noting its findings. */
+  const classifyCell = (k: number, row: number, start: number, nf: number): void => {
+    const i = presentIdx[k]!;
+    const pos = presentPos[k]!;
+    if (pos >= nf) {
+      state[i] = ST_INVALID;
+      cellOf[i] = '';
+      return;
+    }
+    const cell = fields[start + pos]!;
+    cellOf[i] = cell;
+    const c = cls[i]!;
+    const st = c.classify(cell);
+    if (out.spaced) trimmed[i]++;
+    if (st === VALID || st === 1) {
+      state[i] = ST_VALID;
+      if (coded[i]) codeIdx[i] = out.code;
+      num[i] = out.num;
+      if (keepText[i]) text[i] = out.text;
+      if (needVal[i]) val[i] = c.celValue(out);
+      if (st !== VALID && count(out.rule, i, 1)) {
+        pending.push({ row, id: '', item: c.item.name, value: cutValue(cell), rule: RULE_ORDER[out.rule]!, severity: 'warning', message: c.message(out.rule, cell.trim(), '') });
+      }
+    } else if (st === MISSING) {
+      state[i] = ST_MISSING;
+      kind[i] = out.kind;
+    } else {
+      state[i] = ST_INVALID;
+      if (out.unbinned) unbinned[i]++;
+      if (count(out.rule, i, 0)) {
+        const f: Finding = { row, id: '', item: c.item.name, value: cutValue(cell), rule: RULE_ORDER[out.rule]!, severity: 'error', message: c.message(out.rule, cell.trim(), out.suggestion) };
+        if (out.rule === R['unbinned-value']) f.suggestion = out.suggestion;
+        pending.push(f);
+      }
+    }
+  };
+
+  /** The row's key in each group item, from the group cells' classification. */
+  const groupKeysOf = (at: number): void => {
+    for (let g = 0; g < groupStates.length; g++) {
+      const gs = groupStates[g]!;
+      const gi = gs.index;
+      let key: number;
+      if (absent[gi] || state[gi] === ST_MISSING) key = groupKey(gs, GROUP_MISSING);
+      else if (state[gi] === ST_INVALID) key = groupKey(gs, GROUP_INVALID);
+      else if (coded[gi]) {
+        const cache = codeKeyCache[g]!;
+        const ci = codeIdx[gi]!;
+        key = cache[ci]!;
+        if (key < 0) key = cache[ci] = groupKey(gs, codebook.items[gi]!.codes[ci]!.text);
+      } else key = groupKey(gs, idNumericLike(cls[gi]!) ? String(num[gi]) : text[gi]!);
+      rowKeyData[g]![at] = key;
+    }
+    for (let g = 0; g < nGroups; g++) rowTallies[g] = groupStates[g]!.tallies[rowKeyData[g]![at]!]!;
+  };
+
+  /** Tallies item i of the row (overall and in its groups) and retains its value; 1 when missing. */
+  const tallyCell = (i: number, at: number): number => {
+    const s = state[i]!;
+    const slot = i * SLOTS + (s === ST_VALID ? 0 : s === ST_INVALID ? 1 : 2 + kind[i]!);
+    tallies[slot]++;
+    for (let g = 0; g < nGroups; g++) rowTallies[g]![slot]++;
+    const u16 = u16Cols[i];
+    if (u16 !== null) u16[at] = s === ST_VALID ? codeIdx[i]! + 1 : 0;
+    else {
+      const f64 = f64Cols[i];
+      if (f64 !== null) f64[at] = s === ST_VALID ? num[i]! : Number.NaN;
+    }
+    return s === ST_MISSING ? 1 : 0;
+  };
+
+  /** A routing finding made a valid cell invalid after it was tallied: move it, drop its value. */
+  const untallyValid = (i: number, at: number): void => {
+    state[i] = ST_INVALID;
+    tallies[i * SLOTS]--;
+    tallies[i * SLOTS + 1]++;
+    for (let g = 0; g < nGroups; g++) {
+      rowTallies[g]![i * SLOTS]--;
+      rowTallies[g]![i * SLOTS + 1]++;
+    }
+    const u16 = u16Cols[i];
+    if (u16 !== null) u16[at] = 0;
+    const f64 = f64Cols[i];
+    if (f64 !== null) f64[at] = Number.NaN;
+  };
+
   const push = (batch: RowBatch): void => {
     const n = batch.count;
-    const fields = batch.fields;
+    fields = batch.fields;
     const offsets = batch.offsets;
     // Split by element type so each store below stays monomorphic.
-    const f64Cols: Array<Float64Array | null> = [];
-    const u16Cols: Array<Uint16Array | null> = [];
+    f64Cols = [];
+    u16Cols = [];
     for (let i = 0; i < nItems; i++) {
       const c = columns[i];
       const data = c ? c.reserve(n) : null;
       f64Cols.push(data instanceof Float64Array ? data : null);
       u16Cols.push(data instanceof Uint16Array ? data : null);
     }
-    const nGroups = groupStates.length;
-    const rowTallies: Float64Array[] = groupStates.map(() => tallies);
     const idNumData = idNumbers ? idNumbers.reserve(n) : null;
-    const rowKeyData = groupStates.map((gs) => gs.rowKeys.reserve(n));
+    rowKeyData = groupStates.map((gs) => gs.rowKeys.reserve(n));
     for (let r = 0; r < n; r++) {
       const start = offsets[r]!;
       const nf = offsets[r + 1]! - start;
@@ -300,40 +397,13 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
       if (nf !== headerLen && count(R['ragged-row'], -1, 0)) {
         pending.push({ row, id: '', item: '', value: `${nf} fields`, rule: 'ragged-row', severity: 'error', message: rules['ragged-row'].message({ fields: nf, expected: headerLen }) });
       }
-      for (let k = 0; k < nPresent; k++) {
-        const i = presentIdx[k]!;
-        const pos = presentPos[k]!;
-        if (pos >= nf) {
-          state[i] = ST_INVALID;
-          cellOf[i] = '';
-          continue;
-        }
-        const cell = fields[start + pos]!;
-        cellOf[i] = cell;
-        const c = cls[i]!;
-        const st = c.classify(cell);
-        if (out.spaced) trimmed[i]++;
-        if (st === VALID || st === 1) {
-          state[i] = ST_VALID;
-          if (coded[i]) codeIdx[i] = out.code;
-          num[i] = out.num;
-          if (keepText[i]) text[i] = out.text;
-          if (needVal[i]) val[i] = c.celValue(out);
-          if (st !== VALID && count(out.rule, i, 1)) {
-            pending.push({ row, id: '', item: c.item.name, value: cutValue(cell), rule: RULE_ORDER[out.rule]!, severity: 'warning', message: c.message(out.rule, cell.trim(), '') });
-          }
-        } else if (st === MISSING) {
-          state[i] = ST_MISSING;
-          kind[i] = out.kind;
-        } else {
-          state[i] = ST_INVALID;
-          if (out.unbinned) unbinned[i]++;
-          if (count(out.rule, i, 0)) {
-            const f: Finding = { row, id: '', item: c.item.name, value: cutValue(cell), rule: RULE_ORDER[out.rule]!, severity: 'error', message: c.message(out.rule, cell.trim(), out.suggestion) };
-            if (out.rule === R['unbinned-value']) f.suggestion = out.suggestion;
-            pending.push(f);
-          }
-        }
+      for (let k = 0; k < nGroupPresent; k++) classifyCell(k, row, start, nf);
+      groupKeysOf(at);
+      let nMissing = 0;
+      for (let k = 0; k < nGroupPresent; k++) nMissing += tallyCell(presentIdx[k]!, at);
+      for (let k = nGroupPresent; k < nPresent; k++) {
+        classifyCell(k, row, start, nf);
+        nMissing += tallyCell(presentIdx[k]!, at);
       }
 
       // Unique values (first occurrence wins; later ones are findings but stay valid).
@@ -401,7 +471,7 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
           }
         }
       }
-      for (const i of skipInvalid) state[i] = ST_INVALID;
+      for (const i of skipInvalid) untallyValid(i, at);
 
       // Id column, for findings made after the pass.
       if (idIndex >= 0) {
@@ -414,39 +484,6 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
         } else idTexts!.push(rowId());
       }
 
-      // Group keys of this row.
-      for (let g = 0; g < groupStates.length; g++) {
-        const gs = groupStates[g]!;
-        const gi = gs.index;
-        let key: number;
-        if (absent[gi] || state[gi] === ST_MISSING) key = groupKey(gs, GROUP_MISSING);
-        else if (state[gi] === ST_INVALID) key = groupKey(gs, GROUP_INVALID);
-        else if (coded[gi]) {
-          const cache = codeKeyCache[g]!;
-          const ci = codeIdx[gi]!;
-          key = cache[ci]!;
-          if (key < 0) key = cache[ci] = groupKey(gs, codebook.items[gi]!.codes[ci]!.text);
-        } else key = groupKey(gs, idNumericLike(cls[gi]!) ? String(num[gi]) : text[gi]!);
-        rowKeyData[g]![at] = key;
-      }
-
-      // Tallies and retained values.
-      for (let g = 0; g < nGroups; g++) rowTallies[g] = groupStates[g]!.tallies[rowKeyData[g]![at]!]!;
-      let nMissing = 0;
-      for (let k = 0; k < nPresent; k++) {
-        const i = presentIdx[k]!;
-        const s = state[i]!;
-        const slot = i * SLOTS + (s === ST_VALID ? 0 : s === ST_INVALID ? 1 : 2 + kind[i]!);
-        if (s === ST_MISSING) nMissing++;
-        tallies[slot]++;
-        for (let g = 0; g < nGroups; g++) rowTallies[g]![slot]++;
-        const u16 = u16Cols[i];
-        if (u16 !== null) u16[at] = s === ST_VALID ? codeIdx[i]! + 1 : 0;
-        else {
-          const f64 = f64Cols[i];
-          if (f64 !== null) f64[at] = s === ST_VALID ? num[i]! : Number.NaN;
-        }
-      }
       recordMissing[nMissing]++;
 
       if (pending.length > 0) {
