@@ -136,7 +136,8 @@ function cutValue(v: string): string {
  * an answer. A blank where routing says ask is `blank-when-asked` (warning; still missing,
  * blank). Duplicate values of a unique item are findings but stay valid values. Ragged rows:
  * the fields present are checked; cells past the row's end count as invalid (the ragged-row
- * finding explains them); extra fields are ignored.
+ * finding explains them); extra fields are ignored. A row's group key (missingness by group,
+ * the group codes of its findings) comes from the group cell's own classification.
  * Cost: O(items + codes) to set up; push is O(rows x items) with no allocation per cell.
  * Throws CodeweirError CW_USAGE for bad options.
  */
