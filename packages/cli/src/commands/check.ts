@@ -115,11 +115,13 @@ export const checkCommand: CommandDef = {
     const delivery = io.isTTY && args.quiet !== true && args.json !== true ? withProgress(opened, io) : opened;
     const result = await checkDelivery(delivery, codebook, options);
     result.summary.file = data;
-    if (args.out !== undefined) await writeCheckOutputs(result, resolve(io.cwd, String(args.out)), { splitBy });
     const failOnWarning = args['fail-on'] === 'warning';
     const errors = result.summary.findings.bySeverity.error ?? 0;
     const warnings = result.summary.findings.bySeverity.warning ?? 0;
     const exit = errors > 0 || (failOnWarning && warnings > 0) ? 1 : 0;
+    // The verdict in the summary follows the same threshold as the exit code.
+    result.summary.accepted = exit === 0;
+    if (args.out !== undefined) await writeCheckOutputs(result, resolve(io.cwd, String(args.out)), { splitBy });
     if (args.json === true) io.stdout(JSON.stringify(result.summary, null, 2) + '\n');
     else {
       io.stdout(humanReport(result, data, failOnWarning));
