@@ -71,6 +71,9 @@ describe('codeweir check', () => {
   it('--fail-on warning turns warnings into exit 1', async () => {
     expect((await cli(['check', 'warn.csv', '--codebook', 'cb.json'], dir)).code).toBe(0);
     expect((await cli(['check', 'warn.csv', '--codebook', 'cb.json', '--fail-on', 'warning'], dir)).code).toBe(1);
+    // km 12 is inside range 0..50 but above expect.max 10: one implausible warning.
+    const j = await cli(['check', 'warn.csv', '--codebook', 'cb.json', '--fail-on', 'warning', '--json'], dir);
+    expect(JSON.parse(j.out)).toMatchObject({ accepted: false, findings: { byRule: { implausible: 1 } } });
   });
 
   it('a header without rows is exit 0 with a no-rows warning', async () => {
