@@ -9,7 +9,7 @@ import type { ChartDef } from './vega.ts';
 /** A chart before the report gives it an id. */
 export type ChartSpec = Omit<ChartDef, 'id'>;
 import { PALETTE, SEQUENTIAL, categoryColours, orderedColours } from './palette.ts';
-import { daysToMs } from './format.ts';
+import { daysToMs, formatDate, formatNumber } from './format.ts';
 
 const WIDTH = 420;
 
@@ -29,13 +29,13 @@ export function barChart(title: string, description: string, bars: readonly Bar[
     title,
     width: WIDTH - 180,
     height: { step: 20 },
-    data: { values: bars.map((b) => ({ k: b.key, n: b.count, p: b.percent })) },
+    data: { values: bars.map((b) => ({ k: b.key, n: b.count, p: b.percent, d: `${b.key}: ${b.count} (${b.percent.toFixed(1)}%)` })) },
     encoding: {
       y: { field: 'k', type: 'nominal', sort: null, title: null, scale: { paddingInner: 0.3, paddingOuter: 0.15 } },
       x: { field: 'n', type: 'quantitative', title: 'valid cells', axis: { tickMinStep: 1, format: ',d' } },
     },
     layer: [
-      { mark: { type: 'bar', color: PALETTE.blue } },
+      { mark: { type: 'bar', color: PALETTE.blue }, encoding: { description: { field: 'd' } } },
       {
         mark: { type: 'text', align: 'left', dx: 3, fontSize: 10, color: PALETTE.muted, aria: false },
         encoding: { text: { field: 'p', type: 'quantitative', format: '.1f' } },
@@ -58,7 +58,8 @@ export function histogram(
   dates = false,
 ): ChartSpec {
   const at = (x: number) => (dates ? daysToMs(x) : x);
-  const values = counts.map((n, i) => ({ a: at(edges[i]!), b: at(edges[i + 1]!), n }));
+  const show = dates ? formatDate : formatNumber;
+  const values = counts.map((n, i) => ({ a: at(edges[i]!), b: at(edges[i + 1]!), n, d: `${show(edges[i]!)} to ${show(edges[i + 1]!)}: ${n}` }));
   const spec = {
     title,
     width: WIDTH,
@@ -69,6 +70,7 @@ export function histogram(
       x: dates ? { field: 'a', type: 'temporal', title: axisTitle, scale: { type: 'utc' } } : { field: 'a', type: 'quantitative', bin: { binned: true }, title: axisTitle, scale: { zero: false } },
       x2: { field: 'b' },
       y: { field: 'n', type: 'quantitative', title: 'valid cells', axis: { tickMinStep: 1, format: ',d' } },
+      description: { field: 'd' },
     },
   };
   return { title, description, spec: spec as unknown as TopLevelSpec, hover: true };
@@ -164,7 +166,7 @@ export function conditionalBars(
     title,
     width: WIDTH - 140,
     height: { step: 24 },
-    data: { values: segments.map((s) => ({ r: s.row, c: s.column, n: s.count, o: columns.indexOf(s.column) })) },
+    data: { values: segments.map((s) => ({ r: s.row, c: s.column, n: s.count, o: columns.indexOf(s.column), d: `${s.row}, ${s.column}: ${s.count}` })) },
     mark: { type: 'bar', stroke: PALETTE.paper, strokeWidth: 0.75 },
     encoding: {
       y: { field: 'r', type: 'nominal', sort: [...rows], title: null, scale: { paddingInner: 0.3 } },
@@ -177,6 +179,7 @@ export function conditionalBars(
         legend: { columns: 3, symbolType: 'square' },
       },
       order: { field: 'o', type: 'quantitative' },
+      description: { field: 'd' },
     },
   };
   return { title, description, spec: spec as unknown as TopLevelSpec, hover: true };
