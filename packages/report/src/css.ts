@@ -67,6 +67,8 @@ summary { cursor: pointer; color: var(--blue); font-size: 0.88rem; }
 .stats { display: grid; grid-template-columns: repeat(auto-fit, minmax(220px, 1fr)); gap: 0 18px; }
 ul.plain { margin: 4px 0; padding-left: 18px; }
 .withheld li, .conventions li { font-size: 0.9rem; }
+.card.span { grid-column: 1 / -1; }
+.ct td, .ct th { white-space: nowrap; overflow-wrap: normal; }
 .ct td .sub { display: block; color: var(--muted); font-size: 0.78rem; line-height: 1.25; }
 .scroll { overflow-x: auto; }
 footer { color: var(--muted); font-size: 0.85rem; text-align: center; padding: 10px; }

@@ -37,7 +37,9 @@ function pairCard(ctx: Ctx, p: PairDescription, k: number): string {
   const body = p.kind === 'categorical-categorical' ? categorical(ctx, p) : p.kind === 'continuous-continuous' ? continuous(ctx, p) : mixed(ctx, p);
   const conv = Object.entries(p.conventions ?? {});
   const conventions = conv.length > 0 ? `<h4>Conventions</h4><ul class="plain conventions">${conv.map(([c, v]) => `<li><strong>${esc(c)}</strong>: ${esc(v)}</li>`).join('')}</ul>` : '';
-  return `<article class="card" id="pair-${k + 1}"><header><h3>${itemTitle(ctx, p.x)} &times; ${itemTitle(ctx, p.y)}</h3><span class="tags"><span class="tag">${esc(p.kind)}</span><span class="tag">n = ${num(p.n)} (both valid)</span></span></header>${body}${conventions}</article>`;
+  // A contingency table wider than a few columns gets the whole row of the grid.
+  const span = p.kind === 'categorical-categorical' && p.columns.length > 4 ? ' span' : '';
+  return `<article class="card${span}" id="pair-${k + 1}"><header><h3>${itemTitle(ctx, p.x)} &times; ${itemTitle(ctx, p.y)}</h3><span class="tags"><span class="tag">${esc(p.kind)}</span><span class="tag">n = ${num(p.n)} (both valid)</span></span></header>${body}${conventions}</article>`;
 }
 
 function statList(rows: Array<[string, string | undefined]>): string {
