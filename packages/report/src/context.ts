@@ -3,6 +3,7 @@ import type { DescribeResult } from '@codeweir/describe';
 import type { CompiledCodebook, CompiledItem } from '@codeweir/codebook';
 import { escapeHtml as esc } from './escape.ts';
 import type { ChartDef } from './vega.ts';
+import { MAX_SCATTER_POINTS } from './data.ts';
 
 /** What {@link renderReport} reads. */
 export interface ReportInput {
@@ -21,7 +22,7 @@ export interface ReportOptions {
   findingsPerRule?: number;
   /** Bar order of nominal items: `code` (codebook order, default) or `frequency` (most frequent first). */
   nominalOrder?: 'code' | 'frequency';
-  /** Most points drawn in a scatter plot. Default 800. */
+  /** Most points drawn in a scatter plot. Default MAX_SCATTER_POINTS (800). */
   maxScatterPoints?: number;
   /** Pairs drawn as cards with charts; every pair stays in the overview table. Default 60. */
   maxPairCards?: number;
@@ -43,7 +44,7 @@ export function createCtx(input: ReportInput, options: ReportOptions = {}): Ctx 
     options: {
       findingsPerRule: options.findingsPerRule ?? 5,
       nominalOrder: options.nominalOrder ?? 'code',
-      maxScatterPoints: options.maxScatterPoints ?? 800,
+      maxScatterPoints: options.maxScatterPoints ?? MAX_SCATTER_POINTS,
       maxPairCards: options.maxPairCards ?? 60,
     },
     charts,
