@@ -3,7 +3,7 @@
  * worker into `dist/check-worker.mjs`, with esbuild. From source every start pays for the
  * TypeScript loader (tsx) compiling the workspace, several times a bare `node` start; the bundle
  * is plain JavaScript and starts close to bare node. `node dist/codeweir.mjs <command>` is the
- * same CLI as `pnpm codeweir <command>`.
+ * same CLI as `pnpm codeweir <command>`. Shared code goes to `dist/chunk-*.mjs`.
  */
 import { build, type Plugin } from 'esbuild';
 import { copyFileSync, existsSync, mkdirSync, readFileSync, statSync, readdirSync } from 'node:fs';
@@ -44,28 +44,35 @@ const schemaBesideBundle: Plugin = {
 };
 
 /**
- * Builds both bundles unless they are newer than every source file under packages/.
- * Cost: about a second. Throws esbuild's error when a source file does not compile.
+ * Builds both bundles into `outdir` (default dist/) unless they are newer than every source
+ * file under packages/. Cost: a few seconds. Throws esbuild's error when a file does not compile.
  */
-export async function buildBundle(force = false): Promise<void> {
+export async function buildBundle(force = false, outdir = join(ROOT, 'dist')): Promise<void> {
+  const cli = join(outdir, 'codeweir.mjs');
+  const worker = join(outdir, 'check-worker.mjs');
   const stale = (f: string): boolean => force || !existsSync(f) || statSync(f).mtimeMs < newestSource(join(ROOT, 'packages'));
-  if (!stale(BUNDLE) && !stale(WORKER_BUNDLE)) return;
-  const common = {
+  if (!stale(cli) && !stale(worker)) return;
+  mkdirSync(outdir, { recursive: true });
+  copyFileSync(join(ROOT, 'packages/codebook/codebook.schema.json'), join(outdir, 'codebook.schema.json'));
+  await build({
+    entryPoints: { codeweir: join(ROOT, 'packages/cli/src/bin.ts'), 'check-worker': join(ROOT, 'packages/check/src/parallel.ts') },
+    outdir,
+    outExtension: { '.js': '.mjs' },
+    // Code split at dynamic imports, so a command loads only what it uses; chunks sit beside
+    // the entries because bundled code finds the worker and the schema next to itself.
+    splitting: true,
+    chunkNames: 'chunk-[hash]',
     bundle: true,
-    platform: 'node' as const,
-    format: 'esm' as const,
+    platform: 'node',
+    format: 'esm',
     target: 'node20',
     sourcemap: true,
     minify: true,
-    logLevel: 'warning' as const,
+    logLevel: 'warning',
     plugins: [schemaBesideBundle],
     // CommonJS dependencies bundled into ESM call require() for Node's built-ins.
     banner: { js: "import { createRequire as __cwRequire } from 'node:module'; const require = __cwRequire(import.meta.url);" },
-  };
-  mkdirSync(join(ROOT, 'dist'), { recursive: true });
-  copyFileSync(join(ROOT, 'packages/codebook/codebook.schema.json'), join(ROOT, 'dist/codebook.schema.json'));
-  await build({ ...common, entryPoints: [join(ROOT, 'packages/cli/src/bin.ts')], outfile: BUNDLE });
-  await build({ ...common, entryPoints: [join(ROOT, 'packages/check/src/parallel.ts')], outfile: WORKER_BUNDLE });
+  });
 }
 
 if (process.argv[1] && resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
