@@ -12,7 +12,7 @@ interface RSample {
   sd: number;
   quantile: Record<string, number[]>;
 }
-const R = JSON.parse(await readFile('/work/shared/reference/r-oracle.json', 'utf8')) as { probs: number[]; samples: Record<string, RSample> };
+const R = JSON.parse(await readFile(new URL('./reference/r-oracle.json', import.meta.url), 'utf8')) as { probs: number[]; samples: Record<string, RSample> };
 // csv-parse is the parsing oracle; it is a dependency of the read package, so resolve it from there.
 const { parse } = createRequire(new URL('../packages/read/package.json', import.meta.url))('csv-parse/sync') as {
   parse: (input: string, options: Record<string, unknown>) => string[][];

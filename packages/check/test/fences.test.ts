@@ -1,6 +1,6 @@
 /**
  * Quartiles and Tukey fences behind the outlier / extreme findings, against R 4.2.2:
- * quantile(x, c(0.25, 0.75), type = 7) (and type = 6) from /work/shared/reference/r-oracle.json.
+ * quantile(x, c(0.25, 0.75), type = 7) (and type = 6) from test/reference/r-oracle.json.
  * Fences are q1 - 1.5 IQR, q3 + 1.5 IQR (outliers) and q1 - 3 IQR, q3 + 3 IQR (extremes),
  * IQR = q3 - q1 (Tukey's definition), computed here from R's quartiles.
  */
@@ -12,7 +12,7 @@ interface Sample {
   x: number[];
   quantile: Record<string, number[]>;
 }
-const oracle = JSON.parse(readFileSync('/work/shared/reference/r-oracle.json', 'utf8')) as { probs: number[]; samples: Record<string, Sample> };
+const oracle = JSON.parse(readFileSync(new URL('../../../test/reference/r-oracle.json', import.meta.url), 'utf8')) as { probs: number[]; samples: Record<string, Sample> };
 const P25 = oracle.probs.indexOf(0.25);
 const P75 = oracle.probs.indexOf(0.75);
 

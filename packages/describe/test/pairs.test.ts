@@ -7,7 +7,7 @@ import { describePairs } from '../src/pairs.ts';
 import type { PairCategorical, PairContinuous, PairMixed } from '../src/types.ts';
 
 // Outside oracles: R 4.2.2 values in /work/shared/reference/r-oracle.json and jStat 1.9.6.
-const R = JSON.parse(readFileSync('/work/shared/reference/r-oracle.json', 'utf8')) as {
+const R = JSON.parse(readFileSync(new URL('../../../test/reference/r-oracle.json', import.meta.url), 'utf8')) as {
   chisq: Record<'t2x2' | 't3x4' | 'sparse', { table: number[][]; statistic: number; df: number; p: number; expected: number[][]; cramersV: number; phi: number | null }>;
   correlation: { x: number[]; y: number[]; pearson: number; spearman: number };
   mahalanobis: { cutoff_chisq2_0999: number; flagged_rows_1based: number[]; max_d2: number };

@@ -8,7 +8,7 @@ interface RSample {
   fivenum: number[];
   boxplotStats: { stats: number[]; out: number[] };
 }
-const R: { samples: Record<string, RSample> } = JSON.parse(readFileSync('/work/shared/reference/r-oracle.json', 'utf8'));
+const R: { samples: Record<string, RSample> } = JSON.parse(readFileSync(new URL('../../../test/reference/r-oracle.json', import.meta.url), 'utf8'));
 
 describe('boxFromValues', () => {
   // R 4.2.2 boxplot.stats(x, coef = 1.5): whiskers at the most extreme values within

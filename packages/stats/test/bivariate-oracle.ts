@@ -1,5 +1,5 @@
 // Outside oracles for the bivariate statistics tests: the R 4.2.2 values in
-// /work/shared/reference/r-oracle.json (keys correlation, mahalanobis, chisq, etaSquared) and
+// test/reference/r-oracle.json (keys correlation, mahalanobis, chisq, etaSquared) and
 // the jStat library (npm `jstat`, which ships no type declarations).
 import { createRequire } from 'node:module';
 import { R } from './oracle.ts';

@@ -1,5 +1,5 @@
 // Shared access to the outside oracles used by the stats tests: R 4.2.2 values in
-// /work/shared/reference/r-oracle.json and the jStat library (npm `jstat`).
+// test/reference/r-oracle.json and the jStat library (npm `jstat`).
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 
@@ -20,7 +20,7 @@ export interface ROracle {
   largeOffset: { construction: string; certifiedMean: number; certifiedSd: number; rMean: number; rSd: number };
 }
 
-export const R: ROracle = JSON.parse(readFileSync('/work/shared/reference/r-oracle.json', 'utf8'));
+export const R: ROracle = JSON.parse(readFileSync(new URL('../../../test/reference/r-oracle.json', import.meta.url), 'utf8'));
 
 /** The few jStat functions the tests call (jstat ships no type declarations). */
 export interface JStatSubset {
