@@ -6,7 +6,7 @@ import type { CheckResult, ItemColumn } from '@codeweir/check';
 import { describePairs } from '../src/pairs.ts';
 import type { PairCategorical, PairContinuous, PairMixed } from '../src/types.ts';
 
-// Outside oracles: R 4.2.2 values in /work/shared/reference/r-oracle.json and jStat 1.9.6.
+// Outside oracles: R 4.2.2 values in test/reference/r-oracle.json and jStat 1.9.6.
 const R = JSON.parse(readFileSync(new URL('../../../test/reference/r-oracle.json', import.meta.url), 'utf8')) as {
   chisq: Record<'t2x2' | 't3x4' | 'sparse', { table: number[][]; statistic: number; df: number; p: number; expected: number[][]; cramersV: number; phi: number | null }>;
   correlation: { x: number[]; y: number[]; pearson: number; spearman: number };
