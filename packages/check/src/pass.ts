@@ -26,6 +26,8 @@ const ST_VALID = 0;
 const ST_MISSING = 1;
 const ST_INVALID = 2;
 const ST_ABSENT = 3;
+/** The tally number of the `not-applicable` kind (a valid skip). */
+const NOT_APPLICABLE = KINDS.indexOf('not-applicable');
 /** Group key of a row whose group cell is missing (or whose group column is absent). */
 export const GROUP_MISSING = '(missing)';
 /** Group key of a row whose group cell is invalid. */
@@ -132,8 +134,8 @@ function cutValue(v: string): string {
  * finding on one item does not change how another item's routing is decided. A valid answer
  * where routing says skip is `answered-when-skipped` and the cell counts as invalid; blank or a
  * not-applicable code there is correct; another declared missing kind (refused, dont-know...)
- * there is accepted as missing of that kind without a finding, since it does not pretend to be
- * an answer. A blank where routing says ask is `blank-when-asked` (warning; still missing,
+ * there stays missing of that kind and is a `missing-code-when-skipped` warning, since the
+ * codebook says a skipped item is blank or a valid skip. A blank where routing says ask is `blank-when-asked` (warning; still missing,
  * blank). Duplicate values of a unique item are findings but stay valid values. Ragged rows:
  * the fields present are checked; cells past the row's end count as invalid (the ragged-row
  * finding explains them); extra fields are ignored. A row's group key (missingness by group,
@@ -436,7 +438,12 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
           }
         } else {
           routing[i * 3 + 1]++;
-          if (state[i] === ST_VALID) {
+          if (state[i] === ST_MISSING && kind[i] !== 0 && kind[i] !== NOT_APPLICABLE) {
+            if (count(R['missing-code-when-skipped'], i, 1)) {
+              const cell = cellOf[i]!;
+              pending.push({ row, id: '', item: varNames[i]!, value: cutValue(cell), rule: 'missing-code-when-skipped', severity: 'warning', message: rules['missing-code-when-skipped'].message({ item: varNames[i]!, value: cell.trim(), condition: rt.expr.source, kind: KINDS[kind[i]!]! }) });
+            }
+          } else if (state[i] === ST_VALID) {
             skipInvalid.push(i);
             if (count(R['answered-when-skipped'], i, 0)) {
               const cell = cellOf[i]!;

@@ -22,6 +22,7 @@ export type FindingRule =
   | 'duplicate-id'
   | 'answered-when-skipped'
   | 'blank-when-asked'
+  | 'missing-code-when-skipped'
   | 'rule-failed'
   | 'outlier'
   | 'extreme'

@@ -33,11 +33,13 @@ describe('routing', () => {
       ['3', '2', ''], // skipped, blank: correct
       ['4', '2', '-7'], // skipped, not-applicable: correct
       ['5', '1', ''], // asked, blank: warning
-      ['6', '2', '-8'], // skipped, dont-know: accepted as missing of that kind, no finding
+      ['6', '2', '-8'], // skipped, dont-know: missing of that kind, and a warning (blank or not-applicable belongs there)
     ]);
     expect(where(r, 'answered-when-skipped')).toEqual([[2, 'hours']]);
     expect(where(r, 'blank-when-asked')).toEqual([[5, 'hours']]);
     expect(r.findings.find((f) => f.rule === 'blank-when-asked')!.severity).toBe('warning');
+    expect(where(r, 'missing-code-when-skipped')).toEqual([[6, 'hours']]);
+    expect(r.findings.find((f) => f.rule === 'missing-code-when-skipped')).toMatchObject({ severity: 'warning', value: '-8' });
     expect(r.summary.items.hours).toMatchObject({
       valid: 1,
       invalid: 1,

@@ -22,6 +22,7 @@ import { patternMismatch } from './pattern-mismatch.ts';
 import { duplicateId } from './duplicate-id.ts';
 import { answeredWhenSkipped } from './answered-when-skipped.ts';
 import { blankWhenAsked } from './blank-when-asked.ts';
+import { missingCodeWhenSkipped } from './missing-code-when-skipped.ts';
 import { ruleFailed } from './rule-failed.ts';
 import { outlier } from './outlier.ts';
 import { extreme } from './extreme.ts';
@@ -50,6 +51,7 @@ export const rules = {
   'duplicate-id': duplicateId,
   'answered-when-skipped': answeredWhenSkipped,
   'blank-when-asked': blankWhenAsked,
+  'missing-code-when-skipped': missingCodeWhenSkipped,
   'rule-failed': ruleFailed,
   outlier,
   extreme,
