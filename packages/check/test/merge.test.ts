@@ -115,3 +115,24 @@ describe('mergePartials', () => {
     expect(Object.keys(one.summary.groups.zone!).sort()).toEqual(['(missing)', 'z0', 'z1']);
   });
 });
+
+describe('mergePartials, property-based (fast-check)', () => {
+  it('any cut of any prefix of the rows, with any cap, merges to the single pass exactly', async () => {
+    const { default: fc } = await import('fast-check');
+    const all = makeRows(400);
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: all.length }),
+        fc.uniqueArray(fc.integer({ min: 1, max: all.length - 1 }), { maxLength: 4 }),
+        fc.integer({ min: 1, max: 50 }),
+        (n, rawCuts, cap) => {
+          const rows = all.slice(0, n);
+          const cuts = rawCuts.filter((c) => c < n).sort((a, b) => a - b);
+          const opts = { maxFindingsPerRule: cap };
+          expect(comparable(split(rows, cuts, opts))).toEqual(comparable(single(batchesOf(rows, 37, false), opts)));
+        },
+      ),
+      { numRuns: 60, seed: 20261202 },
+    );
+  });
+});
