@@ -72,13 +72,16 @@ async function passOverRange(path: string, range: ByteRange, codebook: CompiledC
   return pass.finish();
 }
 
-/** Every ArrayBuffer that one typed array of `value` owns outright (safe to transfer). */
+/**
+ * Every ArrayBuffer under exactly one typed array of `value` (safe to transfer: the view arrives
+ * with its offset and length, even when it covers only part of a grown buffer).
+ */
 function transferables(value: unknown, out: Set<ArrayBuffer> = new Set(), seen: Set<ArrayBuffer> = new Set()): ArrayBuffer[] {
   if (ArrayBuffer.isView(value)) {
     const b = value.buffer as ArrayBuffer;
-    // A buffer shared by two views, or only partly covered, would detach data still in use.
+    // A buffer under two views would be detached while the other view is still in use.
     if (seen.has(b)) out.delete(b);
-    else if (value.byteOffset === 0 && value.byteLength === b.byteLength) out.add(b);
+    else out.add(b);
     seen.add(b);
   } else if (Array.isArray(value)) {
     for (const v of value) transferables(v, out, seen);
