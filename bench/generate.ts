@@ -8,18 +8,9 @@
  */
 import { closeSync, mkdirSync, openSync, writeFileSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
+import { seededRandom } from '@codeweir/core';
 
-/** Mulberry32: a 32-bit seeded generator; the same seed gives the same delivery on every machine. */
-export function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export { seededRandom };
 
 /** What the generator put into each column, counted while writing it. */
 export interface ItemTruth {

@@ -16,7 +16,7 @@
  */
 import { join, resolve, dirname } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
-import { writeFilesAtomic, CodeweirError, isCodeweirError } from '../packages/core/src/index.ts';
+import { writeFilesAtomic, CodeweirError, isCodeweirError, seededRandom } from '../packages/core/src/index.ts';
 import type { FindingRule } from '../packages/check/src/types.ts';
 
 const HERE = dirname(fileURLToPath(import.meta.url));
@@ -70,22 +70,11 @@ export const COLUMNS = [
 type Column = (typeof COLUMNS)[number];
 const SAT = ['sat_water', 'sat_health', 'sat_school', 'sat_roads', 'sat_safety'] as const;
 
-/** mulberry32: a tiny 32-bit PRNG; deterministic across platforms (integer arithmetic only). */
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 class Draw {
   private readonly u: () => number;
   constructor(seed: number) {
-    this.u = mulberry32(seed);
+    this.u = seededRandom(seed);
   }
   uniform(): number {
     return this.u();

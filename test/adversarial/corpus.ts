@@ -4,18 +4,9 @@
  * The cases are written to a folder and driven through the CLI by adversarial.test.ts.
  */
 import { Buffer } from 'node:buffer';
+import { seededRandom } from '@codeweir/core';
 
-/** mulberry32: a small, well-known 32-bit seeded generator. */
-export function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export { seededRandom as seeded };
 
 export const corpusCodebook = {
   codebook: 'corpus-check',
@@ -102,7 +93,7 @@ export interface CorpusCase {
 }
 
 export function makeCorpus(seed = 20261201): CorpusCase[] {
-  const rand = seeded(seed);
+  const rand = seededRandom(seed);
   const rows = cleanRows(rand, 200);
   const cb = JSON.stringify(corpusCodebook, null, 2);
   const utf8 = (s: string) => Buffer.from(s, 'utf8');
