@@ -9,6 +9,7 @@ import { build, type Plugin } from 'esbuild';
 import { copyFileSync, existsSync, mkdirSync, readFileSync, statSync, readdirSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { createRequire } from 'node:module';
 
 const ROOT = resolve(fileURLToPath(new URL('..', import.meta.url)));
 /** Path of the bundled CLI. */
@@ -27,19 +28,46 @@ function newestSource(dir: string): number {
   return newest;
 }
 
+const AJV_IMPORT = "import { Ajv, type ErrorObject, type ValidateFunction } from 'ajv';";
+const AJV_COMPILE = 'new Ajv({ allErrors: true, strict: false }).compile(schema)';
+const PRECOMPILED = 'codeweir:precompiled-schema';
+
+/**
+ * The shipped schema's ajv validator as JavaScript source, generated now with the options the
+ * codebook package compiles it with at run time. The bundle then validates every codebook with
+ * the same ajv code without compiling the schema (and ajv's meta-schema) at each start, which
+ * was most of the start-up of `codeweir lint`.
+ */
+function precompiledValidator(): string {
+  const codebookDir = join(ROOT, 'packages/codebook');
+  const fromCodebook = createRequire(join(codebookDir, 'package.json'));
+  // ajv is the codebook package's dependency, so it is resolved from there.
+  const { Ajv } = fromCodebook('ajv') as { Ajv: new (o: object) => { compile(s: object): unknown } };
+  const standalone = (fromCodebook('ajv/dist/standalone') as { default: (ajv: unknown, v: unknown) => string }).default;
+  const schema = JSON.parse(readFileSync(join(codebookDir, 'codebook.schema.json'), 'utf8')) as Record<string, unknown>;
+  const ajv = new Ajv({ allErrors: true, strict: false, code: { source: true, esm: true } });
+  return standalone(ajv, ajv.compile(schema));
+}
+
 /**
  * The codebook package reads its shipped JSON Schema next to its source folder; in the bundle
- * the schema file sits next to the bundle instead.
+ * the schema file sits next to the bundle instead, and its validator is compiled at build time.
  */
 const schemaBesideBundle: Plugin = {
   name: 'schema-beside-bundle',
   setup(b) {
     b.onLoad({ filter: /codebook[\\/]src[\\/]json-schema\.ts$/ }, (args) => {
       const text = readFileSync(args.path, 'utf8');
-      const moved = text.replace("new URL('../codebook.schema.json', import.meta.url)", "new URL('./codebook.schema.json', import.meta.url)");
-      if (moved === text) throw new Error('bench/build.ts: the schema location in packages/codebook/src/json-schema.ts changed; update the build.');
+      const moved = text
+        .replace("new URL('../codebook.schema.json', import.meta.url)", "new URL('./codebook.schema.json', import.meta.url)")
+        .replace(AJV_IMPORT, `import type { ErrorObject, ValidateFunction } from 'ajv';\nimport precompiledValidator from '${PRECOMPILED}';`)
+        .replace(AJV_COMPILE, '(precompiledValidator as unknown as ValidateFunction)');
+      const expected = text.includes("new URL('../codebook.schema.json', import.meta.url)") && text.includes(AJV_IMPORT) && text.includes(AJV_COMPILE);
+      if (!expected) throw new Error('bench/build.ts: the schema location or the ajv options in packages/codebook/src/json-schema.ts changed; update the build.');
       return { contents: moved, loader: 'ts' };
     });
+    b.onResolve({ filter: new RegExp(`^${PRECOMPILED}$`) }, () => ({ path: PRECOMPILED, namespace: 'codeweir' }));
+    b.onLoad({ filter: /.*/, namespace: 'codeweir' }, () => ({ contents: precompiledValidator(), loader: 'js', resolveDir: join(ROOT, 'packages/codebook') }));
   },
 };
 

@@ -4,10 +4,13 @@
 import type { CompiledCodebook } from '@codeweir/codebook';
 import type { Delivery, RowBatch } from '@codeweir/read';
 import { openDelivery } from '@codeweir/read';
+import { availableParallelism } from 'node:os';
+import { CodeweirError } from '@codeweir/core';
 import { createPass } from './pass.ts';
 import { finalize } from './finalize.ts';
 import { normalizeCheckOptions, type CheckOptionsInput } from './options.ts';
 import type { CheckResult } from './types.ts';
+import type { ParallelOptions } from './parallel.ts';
 
 type Row = string[] | Record<string, string>;
 
@@ -73,12 +76,26 @@ export async function checkDelivery(delivery: Delivery, codebook: CompiledCodebo
 
 /**
  * Opens a delivery file with @codeweir/read (delimiter and encoding from the options, detected
- * otherwise) and checks it. The file is only read, never changed.
- * Convention: as {@link check}. Cost: one streaming pass. Throws CodeweirError for a missing,
- * unreadable or malformed file (exit code 2) and CW_USAGE for bad options.
+ * otherwise) and checks it, on `threads` threads (default: the number of cores,
+ * `os.availableParallelism()`; 1 = this thread only). With more than one thread the work goes
+ * to {@link checkFileParallel}, whose result is the single-thread one to the byte; files under
+ * its minimum size (8 MiB) stay on this thread, since starting workers would cost more than it
+ * saves. The file is only read, never changed.
+ * Convention: as {@link check}. Cost: one streaming pass, shared among the threads. Throws
+ * CodeweirError for a missing, unreadable or malformed file (exit code 2) and CW_USAGE for bad
+ * options (a `threads` that is not a whole number of at least 1 among them).
+ * @example await checkFile('wave2.csv', codebook, { threads: 1 }) // CheckResult, one thread
  */
-export async function checkFile(path: string, codebook: CompiledCodebook, rawOptions: CheckOptionsInput = {}): Promise<CheckResult> {
-  const options = normalizeCheckOptions(rawOptions);
+export async function checkFile(path: string, codebook: CompiledCodebook, rawOptions: CheckOptionsInput & ParallelOptions = {}): Promise<CheckResult> {
+  const { threads, minParallelBytes, rangesPerThread, useCallingThread, ...rest } = rawOptions;
+  const options = normalizeCheckOptions(rest);
+  const wanted = threads === undefined ? availableParallelism() : Number(threads);
+  if (!Number.isInteger(wanted) || wanted < 1) throw new CodeweirError('CW_USAGE', `--threads takes a positive whole number, got ${String(threads)}.`);
+  if (wanted > 1) {
+    // Loaded only when needed: a one-thread check never starts the worker machinery.
+    const { checkFileParallel } = await import('./parallel.ts');
+    return checkFileParallel(path, codebook, { ...rest, threads: wanted, minParallelBytes, rangesPerThread, useCallingThread });
+  }
   const delivery = await openDelivery(path, { delimiter: options.delimiter, encoding: options.encoding, maxFieldBytes: options.maxFieldBytes });
   return checkDelivery(delivery, codebook, options);
 }

@@ -61,7 +61,7 @@ type FromWorker =
   | { index: number; error: { code?: ErrorCode; message: string; codeweir: boolean } };
 
 function readOptionsOf(o: CheckOptions): ReadOptions {
-  return { delimiter: o.delimiter, encoding: o.encoding };
+  return { delimiter: o.delimiter, encoding: o.encoding, maxFieldBytes: o.maxFieldBytes };
 }
 
 /** Runs the pass over one byte range. Rows are numbered from 1 within the range. */

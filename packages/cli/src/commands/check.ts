@@ -1,9 +1,9 @@
 import { resolve } from 'node:path';
-import { loadCodebookOrThrow } from '@codeweir/codebook';
-import { openDelivery, type Delivery, type RowBatch } from '@codeweir/read';
-import { checkDelivery, normalizeCheckOptions, writeCheckOutputs, type CheckResult, type Finding } from '@codeweir/check';
+import type { Delivery, RowBatch } from '@codeweir/read';
+import type { CheckResult, Finding } from '@codeweir/check';
 import { CodeweirError } from '@codeweir/core';
 import type { CommandDef, Io } from '../io.ts';
+import { THREADS_OPTION, threadsOption } from '../threads.ts';
 
 function plural(n: number, word: string): string {
   return `${n} ${word}${n === 1 ? '' : 's'}`;
@@ -72,7 +72,9 @@ function withProgress(d: Delivery, io: Io): Delivery {
 /**
  * `codeweir check <data> --codebook <file> [--out <dir>] [--split-by <item>] [--json]
  * [--fail-on warning] [--max-findings-per-rule N] [--delimiter c] [--encoding e]
- * [--decimal-comma] [--quantiles N] [--max-field-bytes N] [--quiet]`. Exit 0 when no finding is at error severity
+ * [--decimal-comma] [--quantiles N] [--max-field-bytes N] [--threads N] [--quiet]`. With more than one
+ * thread (the default on a multi-core machine) a large file is checked in parallel, with the
+ * same result; progress is shown for a one-thread check only. Exit 0 when no finding is at error severity
  * (with --fail-on warning: no warning either), 1 when there are error findings or the
  * codebook is invalid, 2 for usage errors and unreadable input.
  */
@@ -93,9 +95,17 @@ export const checkCommand: CommandDef = {
       .option('decimal-comma', { type: 'boolean', default: false, describe: 'decimals are written with a comma (1,5)' })
       .option('quantiles', { type: 'string', describe: 'Hyndman-Fan quantile type 1 to 9 for the outlier fences; default 7' })
       .option('max-field-bytes', { type: 'string', describe: 'largest field allowed, in bytes (a larger one makes the file unreadable)' })
+      .option('threads', THREADS_OPTION)
       .option('quiet', { type: 'boolean', default: false, describe: 'no progress on stderr' }),
   handler: async (args, io) => {
     const data = String(args.data);
+    const threads = threadsOption(args.threads);
+    // Loaded here, not at the top, so that starting the CLI costs only the command it runs.
+    const [{ loadCodebookOrThrow }, { openDelivery }, { checkDelivery, checkFile, normalizeCheckOptions, writeCheckOutputs }] = await Promise.all([
+      import('@codeweir/codebook'),
+      import('@codeweir/read'),
+      import('@codeweir/check'),
+    ]);
     const options = normalizeCheckOptions({
       maxFindingsPerRule: args['max-findings-per-rule'],
       quantileType: args.quantiles,
@@ -111,9 +121,14 @@ export const checkCommand: CommandDef = {
       const groups = codebook.groupItems.map((g) => g.name);
       throw new CodeweirError('CW_USAGE', `--split-by takes a group item of the codebook${groups.length ? ` (${groups.join(', ')})` : ', which has none'}, got ${splitBy}.`);
     }
-    const opened = await openDelivery(resolve(io.cwd, data), { delimiter: options.delimiter, encoding: options.encoding, maxFieldBytes: options.maxFieldBytes });
-    const delivery = io.isTTY && args.quiet !== true && args.json !== true ? withProgress(opened, io) : opened;
-    const result = await checkDelivery(delivery, codebook, options);
+    const dataPath = resolve(io.cwd, data);
+    let result: CheckResult;
+    if (threads > 1) result = await checkFile(dataPath, codebook, { ...options, threads });
+    else {
+      const opened = await openDelivery(dataPath, { delimiter: options.delimiter, encoding: options.encoding, maxFieldBytes: options.maxFieldBytes });
+      const delivery = io.isTTY && args.quiet !== true && args.json !== true ? withProgress(opened, io) : opened;
+      result = await checkDelivery(delivery, codebook, options);
+    }
     result.summary.file = data;
     const failOnWarning = args['fail-on'] === 'warning';
     const errors = result.summary.findings.bySeverity.error ?? 0;

@@ -1,8 +1,8 @@
 import { resolve } from 'node:path';
-import { loadCodebookOrThrow, type CompiledCodebook } from '@codeweir/codebook';
-import { checkFile } from '@codeweir/check';
-import { describe, normalizeDescribeOptions, type DescribeResult, type ItemDescription, type PairDescription } from '@codeweir/describe';
+import type { CompiledCodebook } from '@codeweir/codebook';
+import type { DescribeResult, ItemDescription, PairDescription } from '@codeweir/describe';
 import type { CommandDef } from '../io.ts';
+import { THREADS_OPTION, threadsOption } from '../threads.ts';
 
 /** Numbers in the text summary: four significant digits, whole numbers as they are. */
 function num(x: number | undefined | null): string {
@@ -94,7 +94,7 @@ export function describeText(r: DescribeResult, dateItems: ReadonlySet<string> =
 
 /**
  * `codeweir describe <data> --codebook <file> [--pair x:y ...] [--pairs all] [--listwise]
- * [--weight <item>] [--quantiles 1..9] [--percentiles 10,90] [--delimiter] [--encoding] [--json]`:
+ * [--weight <item>] [--quantiles 1..9] [--percentiles 10,90] [--delimiter] [--encoding] [--threads N] [--json]`:
  * checks the delivery, then prints level-appropriate summaries of the valid cells (JSON with
  * --json). Exit 0 when the delivery has no error findings, 1 when it has some (the summaries are
  * printed all the same) or the codebook is invalid, 2 for usage errors or unreadable input.
@@ -114,6 +114,7 @@ export const describeCommand: CommandDef = {
       .option('percentiles', { type: 'string', describe: 'extra percentiles, e.g. 10,90' })
       .option('delimiter', { type: 'string', describe: 'field delimiter (detected when absent)' })
       .option('encoding', { type: 'string', describe: 'utf-8 (default), windows-1252, latin1, utf-16le, utf-16be' })
+      .option('threads', THREADS_OPTION)
       .option('json', { type: 'boolean', default: false, describe: 'print the describe document as JSON on stdout' }),
   handler: async (args, io) => {
     // Options are checked before any file is read, so a typo fails at once.
@@ -121,6 +122,13 @@ export const describeCommand: CommandDef = {
     if (pairsFlag !== undefined && pairsFlag !== 'all') {
       return usage(io, `--pairs takes 'all', got ${JSON.stringify(pairsFlag)}; name single pairs with --pair x:y.`);
     }
+    const threads = threadsOption(args.threads);
+    // Loaded here, not at the top, so that starting the CLI costs only the command it runs.
+    const [{ loadCodebookOrThrow }, { checkFile }, { describe, normalizeDescribeOptions }] = await Promise.all([
+      import('@codeweir/codebook'),
+      import('@codeweir/check'),
+      import('@codeweir/describe'),
+    ]);
     const options = normalizeDescribeOptions({
       quantileType: args.quantiles,
       weight: args.weight,
@@ -133,6 +141,7 @@ export const describeCommand: CommandDef = {
       quantileType: options.quantileType,
       delimiter: args.delimiter,
       encoding: args.encoding,
+      threads,
     });
     const described = describe(result, codebook, options);
     io.stdout(args.json === true ? JSON.stringify(described, null, 2) + '\n' : describeText(described, dateItems(codebook)));

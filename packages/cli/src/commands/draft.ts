@@ -1,9 +1,7 @@
 import { basename, resolve } from 'node:path';
 import { stat } from 'node:fs/promises';
 import { CodeweirError, writeFileAtomic } from '@codeweir/core';
-import { openDelivery, type ReadOptions } from '@codeweir/read';
-import { parseCodebook } from '@codeweir/codebook';
-import { draftDelivery, formatJson } from '@codeweir/draft';
+import type { ReadOptions } from '@codeweir/read';
 import type { CommandDef } from '../io.ts';
 
 function plural(n: number, word: string, many = `${word}s`): string {
@@ -63,6 +61,12 @@ export const draftCommand: CommandDef = {
     if (out !== undefined && args.force !== true && (await exists(out))) {
       throw new CodeweirError('CW_USAGE', `${String(args.out)} already exists; pass --force to replace it, or choose another file.`, { file: String(args.out) });
     }
+    // Loaded here, not at the top, so that starting the CLI costs only the command it runs.
+    const [{ openDelivery }, { parseCodebook }, { draftDelivery, formatJson }] = await Promise.all([
+      import('@codeweir/read'),
+      import('@codeweir/codebook'),
+      import('@codeweir/draft'),
+    ]);
     const readOptions: ReadOptions = {};
     if (args.delimiter !== undefined) readOptions.delimiter = String(args.delimiter);
     if (args.encoding !== undefined) readOptions.encoding = String(args.encoding) as ReadOptions['encoding'];

@@ -1,5 +1,5 @@
 import { resolve } from 'node:path';
-import { loadCodebook, type Problem } from '@codeweir/codebook';
+import type { Problem } from '@codeweir/codebook';
 import type { CommandDef } from '../io.ts';
 
 function plural(n: number, word: string): string {
@@ -28,6 +28,8 @@ export const lintCommand: CommandDef = {
       .option('json', { type: 'boolean', default: false, describe: 'print { "ok", "problems" } as one JSON document on stdout' }),
   handler: async (args, io) => {
     const given = String(args.codebook);
+    // Loaded here, not at the top, so that starting the CLI costs only the command it runs.
+    const { loadCodebook } = await import('@codeweir/codebook');
     const result = await loadCodebook(resolve(io.cwd, given));
     const ok = !result.problems.some((p) => p.severity === 'error');
     if (args.json === true) {

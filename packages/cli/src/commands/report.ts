@@ -1,11 +1,9 @@
 import { resolve } from 'node:path';
-import { loadCodebookOrThrow } from '@codeweir/codebook';
-import { checkDelivery, normalizeCheckOptions } from '@codeweir/check';
-import { describe, normalizeDescribeOptions } from '@codeweir/describe';
-import { openDelivery, type Delivery, type RowBatch } from '@codeweir/read';
-import { renderReport } from '@codeweir/report';
+import type { CheckResult } from '@codeweir/check';
+import type { Delivery, RowBatch } from '@codeweir/read';
 import { CodeweirError, writeFileAtomic } from '@codeweir/core';
 import type { CommandDef } from '../io.ts';
+import { THREADS_OPTION, threadsOption } from '../threads.ts';
 import { createProgress, type Progress } from '../progress.ts';
 
 /** Counts rows as the one pass reads them, for the progress line. */
@@ -25,7 +23,7 @@ function counted(d: Delivery, progress: Progress): Delivery {
 
 /**
  * `codeweir report <data> --codebook <file> -o <file.html> [--pair x:y ...] [--pairs all]
- * [--weight <item>] [--quantiles 1..9] [--delimiter c] [--encoding e] [--quiet]`: one pass
+ * [--weight <item>] [--quantiles 1..9] [--delimiter c] [--encoding e] [--threads N] [--quiet]`: one pass
  * over the delivery (check, whose retained columns describe then summarises), then one
  * self-contained HTML file written atomically. Exit 0 accepted, 1 error findings (the report
  * is written in both cases) or an invalid codebook, 2 usage errors or unreadable input.
@@ -44,6 +42,7 @@ export const reportCommand: CommandDef = {
       .option('quantiles', { type: 'string', describe: 'Hyndman-Fan quantile type, 1 to 9 (default 7)' })
       .option('delimiter', { type: 'string', describe: 'field delimiter (detected when absent)' })
       .option('encoding', { type: 'string', describe: 'utf-8 (default), windows-1252, latin1, utf-16le, utf-16be' })
+      .option('threads', THREADS_OPTION)
       .option('quiet', { type: 'boolean', default: false, describe: 'no progress on stderr' }),
   handler: async (args, io) => {
     // Every option is checked before any file is read, so a typo fails at once.
@@ -53,6 +52,16 @@ export const reportCommand: CommandDef = {
     }
     const out = String(args.o);
     if (!/\.html?$/i.test(out)) throw new CodeweirError('CW_USAGE', `-o takes the path of an .html file, got ${out}.`);
+    const threads = threadsOption(args.threads);
+    // Loaded here, not at the top, so that starting the CLI costs only the command it runs (the
+    // report package, with its chart libraries, is by far the largest).
+    const [{ loadCodebookOrThrow }, { checkDelivery, checkFile, normalizeCheckOptions }, { describe, normalizeDescribeOptions }, { openDelivery }, { renderReport }] = await Promise.all([
+      import('@codeweir/codebook'),
+      import('@codeweir/check'),
+      import('@codeweir/describe'),
+      import('@codeweir/read'),
+      import('@codeweir/report'),
+    ]);
     const describeOptions = normalizeDescribeOptions({
       quantileType: args.quantiles,
       weight: args.weight,
@@ -67,8 +76,14 @@ export const reportCommand: CommandDef = {
     const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)));
     const progress = createProgress(io, { label: 'reading rows', quiet: args.quiet === true });
     try {
-      const opened = await openDelivery(dataPath, { delimiter: checkOptions.delimiter, encoding: checkOptions.encoding });
-      const result = await checkDelivery(counted(opened, progress), codebook, checkOptions);
+      let result: CheckResult;
+      if (threads > 1) {
+        progress.phase('checking');
+        result = await checkFile(dataPath, codebook, { ...checkOptions, threads });
+      } else {
+        const opened = await openDelivery(dataPath, { delimiter: checkOptions.delimiter, encoding: checkOptions.encoding });
+        result = await checkDelivery(counted(opened, progress), codebook, checkOptions);
+      }
       result.summary.file = data;
       progress.phase('describing');
       const described = describe(result, codebook, describeOptions);
