@@ -72,6 +72,31 @@ const schemaBesideBundle: Plugin = {
 };
 
 /**
+ * The CLI's argument parser measures every line of a command's help text after each command
+ * it runs, with string-width, whose per-string Unicode segmentation made up much of a short
+ * command's start-up. A string of printable ASCII only is one column per character in
+ * string-width too, so that case is answered at once and every other string still goes to
+ * string-width: the widths, and so the help text, are unchanged.
+ */
+const asciiWidthFirst: Plugin = {
+  name: 'ascii-width-first',
+  setup(b) {
+    b.onResolve({ filter: /^string-width$/ }, (args) =>
+      args.namespace === 'ascii-width' ? undefined : { path: args.resolveDir, namespace: 'ascii-width' },
+    );
+    b.onLoad({ filter: /.*/, namespace: 'ascii-width' }, (args) => ({
+      contents:
+        "import stringWidth from 'string-width';\n" +
+        'export default function width(text, options) {\n' +
+        '  return typeof text === \'string\' && /^[\\x20-\\x7e]*$/.test(text) ? text.length : stringWidth(text, options);\n' +
+        '}\n',
+      loader: 'js',
+      resolveDir: args.path,
+    }));
+  },
+};
+
+/**
  * Builds both bundles into `outdir` (default dist/) unless they are newer than every source
  * file under packages/. Cost: a few seconds. Throws esbuild's error when a file does not compile.
  */
@@ -97,7 +122,7 @@ export async function buildBundle(force = false, outdir = join(ROOT, 'dist')): P
     sourcemap: true,
     minify: true,
     logLevel: 'warning',
-    plugins: [schemaBesideBundle],
+    plugins: [schemaBesideBundle, asciiWidthFirst],
     // CommonJS dependencies bundled into ESM call require() for Node's built-ins.
     banner: { js: "import { createRequire as __cwRequire } from 'node:module'; const require = __cwRequire(import.meta.url);" },
   });
