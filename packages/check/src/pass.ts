@@ -12,7 +12,7 @@ import { compileClassifiers, KINDS, MISSING, VALID, type ItemClassifier } from '
 import { mapHeader, type HeaderMap } from './header.ts';
 import { normalizeCheckOptions, type CheckOptions, type CheckOptionsInput } from './options.ts';
 import { rules, RULE_NUMBER, RULE_ORDER } from './rules/index.ts';
-import { Grow } from './grow.ts';
+import { Chunked } from './grow.ts';
 import { NumberFirsts, TextFirsts, type Firsts, type UniqueEntries } from './unique.ts';
 import type { Finding, FindingSeverity } from './types.ts';
 
@@ -141,9 +141,12 @@ function cutValue(v: string): string {
  * finding explains them); extra fields are ignored. A row's group key (missingness by group,
  * the group codes of its findings) comes from the group cell's own classification.
  * Cost: O(items + codes) to set up; push is O(rows x items) with no allocation per cell.
+ * Memory: the retained columns (8 bytes a row per numeric item and the numeric id, 2 per coded
+ * item, 4 per group item) in chunks; `expectedRows` (optional, e.g. estimated from the file
+ * size) sizes the first chunk, so a good estimate means one allocation per column and no copy.
  * Throws CodeweirError CW_USAGE for bad options.
  */
-export function createPass(codebook: CompiledCodebook, header: readonly string[], rawOptions: CheckOptionsInput | CheckOptions = {}): Pass {
+export function createPass(codebook: CompiledCodebook, header: readonly string[], rawOptions: CheckOptionsInput | CheckOptions = {}, expectedRows?: number): Pass {
   const options = normalizeCheckOptions(rawOptions as CheckOptionsInput);
   const hmap = mapHeader(codebook, header);
   const { out, items: cls } = compileClassifiers(codebook, options);
@@ -216,8 +219,8 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
   const findings: Finding[] = [];
   const pending: Finding[] = [];
 
-  const columns: Array<Grow<Float64Array> | Grow<Uint16Array> | null> = cls.map((c) =>
-    c.retained && !absent[c.item.index] ? (c.shape === 'coded' ? new Grow(Uint16Array) : new Grow(Float64Array)) : null,
+  const columns: Array<Chunked<Float64Array> | Chunked<Uint16Array> | null> = cls.map((c) =>
+    c.retained && !absent[c.item.index] ? (c.shape === 'coded' ? new Chunked(Uint16Array, expectedRows) : new Chunked(Float64Array, expectedRows)) : null,
   );
   const coded = Uint8Array.from(cls, (c) => (c.shape === 'coded' ? 1 : 0));
   /** Items whose valid value is text (free text, or text codes): the trimmed text is kept per row. */
@@ -226,7 +229,7 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
   const idItem = codebook.idItem && !absent[codebook.idItem.index] ? codebook.idItem : undefined;
   const idIndex = idItem ? idItem.index : -1;
   const idNumeric = idItem !== undefined && cls[idIndex]!.shape !== 'text' && !(cls[idIndex]!.shape === 'coded' && idItem.type === 'text');
-  const idNumbers = idItem && idNumeric ? new Grow(Float64Array) : null;
+  const idNumbers = idItem && idNumeric ? new Chunked(Float64Array, expectedRows) : null;
   const idTexts: string[] | null = idItem && !idNumeric ? [] : null;
   const idOdd = new Map<number, string>();
 
@@ -243,7 +246,7 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     keys: [] as string[],
     tallies: [] as Float64Array[],
     keyOf: new Map<string, number>(),
-    rowKeys: new Grow(Uint32Array),
+    rowKeys: new Chunked(Uint32Array, expectedRows),
   }));
   const groupKey = (gs: (typeof groupStates)[number], key: string): number => {
     let k = gs.keyOf.get(key);
@@ -394,8 +397,9 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     for (let r = 0; r < n; r++) {
       const start = offsets[r]!;
       const nf = offsets[r + 1]! - start;
-      const at = rows;
-      const row = at + 1;
+      // Retained values are written into this batch's windows (see Chunked.reserve), from 0.
+      const at = r;
+      const row = rows + 1;
       pending.length = 0;
       if (nf !== headerLen && count(R['ragged-row'], -1, 0)) {
         pending.push({ row, id: '', item: '', value: `${nf} fields`, rule: 'ragged-row', severity: 'error', message: rules['ragged-row'].message({ fields: nf, expected: headerLen }) });
@@ -503,9 +507,9 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
       }
       rows++;
     }
-    for (const c of columns) if (c) c.length = rows;
-    if (idNumbers) idNumbers.length = rows;
-    for (const gs of groupStates) gs.rowKeys.length = rows;
+    for (const c of columns) if (c) c.commit(n);
+    if (idNumbers) idNumbers.commit(n);
+    for (const gs of groupStates) gs.rowKeys.commit(n);
   };
 
   const finish = (): PartialResult => ({
