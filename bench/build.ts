@@ -78,17 +78,21 @@ const schemaBesideBundle: Plugin = {
  * string-width too, so that case is answered at once and every other string still goes to
  * string-width: the widths, and so the help text, are unchanged.
  */
-const asciiWidthFirst: Plugin = {
+export const asciiWidthFirst: Plugin = {
   name: 'ascii-width-first',
   setup(b) {
     b.onResolve({ filter: /^string-width$/ }, (args) =>
       args.namespace === 'ascii-width' ? undefined : { path: args.resolveDir, namespace: 'ascii-width' },
     );
     b.onLoad({ filter: /.*/, namespace: 'ascii-width' }, (args) => ({
+      // Required, not imported: string-width's own start-up (a Unicode segmenter and large
+      // property-class patterns, tens of milliseconds) is then paid only for non-ASCII text.
       contents:
-        "import stringWidth from 'string-width';\n" +
+        'let stringWidth;\n' +
         'export default function width(text, options) {\n' +
-        '  return typeof text === \'string\' && /^[\\x20-\\x7e]*$/.test(text) ? text.length : stringWidth(text, options);\n' +
+        '  if (typeof text === \'string\' && /^[\\x20-\\x7e]*$/.test(text)) return text.length;\n' +
+        "  stringWidth ??= require('string-width').default;\n" +
+        '  return stringWidth(text, options);\n' +
         '}\n',
       loader: 'js',
       resolveDir: args.path,
