@@ -6,7 +6,7 @@
  * same CLI as `pnpm codeweir <command>`. Shared code goes to `dist/chunk-*.mjs`.
  */
 import { build, type Plugin } from 'esbuild';
-import { copyFileSync, existsSync, mkdirSync, readFileSync, statSync, readdirSync } from 'node:fs';
+import { copyFileSync, existsSync, mkdirSync, readFileSync, rmSync, statSync, readdirSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createRequire } from 'node:module';
@@ -110,6 +110,8 @@ export async function buildBundle(force = false, outdir = join(ROOT, 'dist')): P
   const stale = (f: string): boolean => force || !existsSync(f) || statSync(f).mtimeMs < newestSource(join(ROOT, 'packages'));
   if (!stale(cli) && !stale(worker)) return;
   mkdirSync(outdir, { recursive: true });
+  // Chunk names are content hashes: the previous build's chunks would otherwise pile up.
+  for (const f of readdirSync(outdir)) if (/^chunk-[A-Z0-9]+\.mjs(\.map)?$/.test(f)) rmSync(join(outdir, f));
   copyFileSync(join(ROOT, 'packages/codebook/codebook.schema.json'), join(outdir, 'codebook.schema.json'));
   await build({
     entryPoints: { codeweir: join(ROOT, 'packages/cli/src/bin.ts'), 'check-worker': join(ROOT, 'packages/check/src/parallel.ts') },
