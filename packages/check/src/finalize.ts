@@ -187,6 +187,26 @@ function idOfRow(ids: IdColumn | null, row: number): string {
   return String(v);
 }
 
+/** Copies the valid (non-NaN) values of `col` to the start of `out`; returns how many. Cost: O(n). */
+function copyValid(col: Float64Array, out: Float64Array): number {
+  let m = 0;
+  for (let r = 0; r < col.length; r++) {
+    const v = col[r]!;
+    if (v === v) out[m++] = v; // NaN marks a cell that is not valid
+  }
+  return m;
+}
+
+/** 0-based indices of the values below `lower` or above `upper`, in order (NaN is neither). Cost: O(n). */
+function outsideRows(col: Float64Array, lower: number, upper: number): number[] {
+  const out: number[] = [];
+  for (let r = 0; r < col.length; r++) {
+    const v = col[r]!;
+    if (v < lower || v > upper) out.push(r);
+  }
+  return out;
+}
+
 /** Shortest decimal text of a fence, rounded to 12 significant digits so 3.2500000000000004 prints as 3.25. */
 function fenceText(v: number): string {
   return String(Number(v.toPrecision(12)));
@@ -266,11 +286,7 @@ export function finalize(p: PartialResult): CheckResult {
     const fenced = (item.level === 'interval' || item.level === 'ratio') && item.type !== 'text' && col instanceof Float64Array;
     if (!fenced) continue;
     if (scratch === null || scratch.length < col.length) scratch = new Float64Array(col.length);
-    let m = 0;
-    for (let r = 0; r < col.length; r++) {
-      const v = col[r]!;
-      if (v === v) scratch[m++] = v; // NaN marks a cell that is not valid
-    }
+    const m = copyValid(col, scratch);
     if (m === 0) continue;
     // Selection, not a sort: identical quartiles to quantileSorted of the sorted values, in O(n).
     const [q1, q3] = quantilesInPlace(scratch.subarray(0, m), [0.25, 0.75], options.quantileType) as [number, number];
@@ -278,22 +294,23 @@ export function finalize(p: PartialResult): CheckResult {
     fences[item.name] = { q1, q3, ...f };
     let keptOut = 0;
     let keptExt = 0;
-    for (let r = 0; r < col.length; r++) {
+    // The fences as printed, once per item; a finding's text is built only when it is kept.
+    const bounds = {
+      outlier: { lower: Number(fenceText(f.lower)), upper: Number(fenceText(f.upper)) },
+      extreme: { lower: Number(fenceText(f.lowerExtreme)), upper: Number(fenceText(f.upperExtreme)) },
+    };
+    for (const r of outsideRows(col, f.lower, f.upper)) {
       const v = col[r]!;
-      if (!(v < f.lower || v > f.upper)) continue; // NaN (not valid) fails both tests
       const isExtreme = v < f.lowerExtreme || v > f.upperExtreme;
       const rule: FindingRule = isExtreme ? 'extreme' : 'outlier';
       const keep = isExtreme ? keptExt++ < cap : keptOut++ < cap;
+      if (!keep) {
+        note(rule, item.index, null);
+        continue;
+      }
       const value = String(v);
-      const lower = fenceText(isExtreme ? f.lowerExtreme : f.lower);
-      const upper = fenceText(isExtreme ? f.upperExtreme : f.upper);
-      note(
-        rule,
-        item.index,
-        keep
-          ? { row: r + 1, id: idOfRow(p.ids, r + 1), item: item.name, value, rule, severity: 'info', message: rules[rule].message({ item: item.name, value, lower: Number(lower), upper: Number(upper) }) }
-          : null,
-      );
+      const message = rules[rule].message({ item: item.name, value, ...bounds[rule] });
+      note(rule, item.index, { row: r + 1, id: idOfRow(p.ids, r + 1), item: item.name, value, rule, severity: 'info', message });
     }
   }
 
