@@ -43,6 +43,8 @@ export function sortAndCapFindings(findings: Finding[], codebook: CompiledCodebo
 }
 
 function concatTyped<T extends Float64Array | Uint16Array | Uint32Array>(parts: T[]): T {
+  // One part: nothing to join, and no copy (the merged result only reads its columns).
+  if (parts.length === 1) return parts[0]!;
   const total = parts.reduce((s, p) => s + p.length, 0);
   const out = new (parts[0]!.constructor as { new (n: number): T })(total);
   let at = 0;
