@@ -92,7 +92,7 @@ describe('--threads validation', () => {
         // The data file does not exist: the option must be refused first.
         const r = await cli([command, 'absent.csv', '--codebook', 'absent.json', ...extra, `--threads=${bad}`], dir);
         expect(r.code).toBe(2);
-        expect(r.err).toBe(`codeweir: --threads takes a positive whole number, got ${bad}.\n`);
+        expect(r.err).toBe(`codeweir: --threads takes a positive whole number, got ${bad === '' ? 'nothing' : bad}.\n`);
         expect(r.out).toBe('');
       });
     }

@@ -18,7 +18,7 @@ export function threadsOption(v: unknown): number {
   // Given twice, yargs hands over an array; digits only, so "1.5", "2e0" and "" are refused.
   const text = Array.isArray(v) ? v.join(' ') : String(v);
   if (!/^\d+$/.test(text.trim()) || Number(text) < 1 || !Number.isSafeInteger(Number(text))) {
-    throw new CodeweirError('CW_USAGE', `--threads takes a positive whole number, got ${text}.`);
+    throw new CodeweirError('CW_USAGE', `--threads takes a positive whole number, got ${text === '' ? 'nothing' : text}.`);
   }
   return Number(text);
 }
