@@ -12,6 +12,12 @@ export interface CheckOptions {
   decimalComma: boolean;
   /** Text longer than this is a pattern mismatch without running the regular expression. Default 10,000. */
   maxPatternLength: number;
+  /**
+   * Keep coded items' per-row values (2 bytes a row each) in the result's store, for describe
+   * and the report. Default true; `codeweir check` alone passes false, so coded items then add
+   * no memory per row (their counts are tallied as the rows pass).
+   */
+  retainCoded: boolean;
   /** Share of an item's answered cells that are raw quantities above which the column counts as delivered unbinned. Default 0.5. */
   unbinnedColumnShare: number;
   /** Passed to the reader by checkFile. */
@@ -89,5 +95,11 @@ export function normalizeCheckOptions(raw: CheckOptionsInput = {}): CheckOptions
 
   const batchRows = positiveInteger('batchRows', raw.batchRows, 4096);
 
-  return { maxFindingsPerRule, quantileType, decimalComma, maxPatternLength, unbinnedColumnShare, delimiter, encoding, maxFieldBytes, batchRows };
+  let retainCoded = true;
+  if (raw.retainCoded !== undefined) {
+    if (typeof raw.retainCoded !== 'boolean') bad(`retainCoded is true or false, got ${String(raw.retainCoded)}.`);
+    retainCoded = raw.retainCoded;
+  }
+
+  return { maxFindingsPerRule, quantileType, decimalComma, maxPatternLength, retainCoded, unbinnedColumnShare, delimiter, encoding, maxFieldBytes, batchRows };
 }

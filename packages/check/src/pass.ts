@@ -220,7 +220,7 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
   const pending: Finding[] = [];
 
   const columns: Array<Chunked<Float64Array> | Chunked<Uint16Array> | null> = cls.map((c) =>
-    c.retained && !absent[c.item.index] ? (c.shape === 'coded' ? new Chunked(Uint16Array, expectedRows) : new Chunked(Float64Array, expectedRows)) : null,
+    c.retained && !absent[c.item.index] && (c.shape !== 'coded' || options.retainCoded) ? (c.shape === 'coded' ? new Chunked(Uint16Array, expectedRows) : new Chunked(Float64Array, expectedRows)) : null,
   );
   const coded = Uint8Array.from(cls, (c) => (c.shape === 'coded' ? 1 : 0));
   /** Items whose valid value is text (free text, or text codes): the trimmed text is kept per row. */

@@ -113,6 +113,8 @@ export const checkCommand: CommandDef = {
       delimiter: args.delimiter,
       encoding: args.encoding,
       maxFieldBytes: args['max-field-bytes'],
+      // check alone describes nothing: coded items are tallied as rows pass and keep no per-row memory.
+      retainCoded: false,
     });
     const splitBy = args['split-by'] === undefined ? undefined : String(args['split-by']);
     if (splitBy !== undefined && args.out === undefined) throw new CodeweirError('CW_USAGE', '--split-by writes files, so it needs --out <dir>.');
