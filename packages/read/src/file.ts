@@ -4,7 +4,7 @@
  */
 import { open, stat, type FileHandle } from 'node:fs/promises';
 import { CodeweirError } from '@codeweir/core';
-import { BatchBuilder } from './tokenizer.ts';
+import { BatchStream } from './tokenizer.ts';
 import { parseHeader, tokenizerFor } from './header.ts';
 import { detectBom, detectDelimiter, detectNewline, looksBinary, sniffUtf16 } from './detect.ts';
 import { encodedLength, firstInvalidUtf8, makeDecoder } from './decode.ts';
@@ -194,9 +194,7 @@ export async function* rangeBatches(layout: Layout, range: ByteRange): AsyncGene
     let pos = range.start;
     const read = (into: Uint8Array, at: number) => readAt(fh, file, into, Math.min(into.length, end - at), at);
     let pending: Promise<number> | undefined = pos < end ? read(buffers[0] as Uint8Array, pos) : undefined;
-    let row = range.firstRow ?? 1;
-    const batchRows = options.batchRows ?? defaultBatchRows(layout.header.length);
-    let out = new BatchBuilder(row, batchRows);
+    const batches = new BatchStream(range.firstRow ?? 1, options.batchRows ?? defaultBatchRows(layout.header.length));
     for (;;) {
       let text = '';
       let final = true;
@@ -219,16 +217,7 @@ export async function* rangeBatches(layout: Layout, range: ByteRange): AsyncGene
         text = decoder.decode(new Uint8Array(0), true);
       }
       tok.push(text, final);
-      for (;;) {
-        const status = tok.fill(out, batchRows);
-        if (status === 'more') break;
-        if (out.count > 0) {
-          row += out.count;
-          yield out.finish();
-          out = new BatchBuilder(row, batchRows);
-        }
-        if (status === 'done') return;
-      }
+      if (yield* batches.drain(tok)) return;
     }
   } finally {
     await fh.close();

@@ -1,5 +1,5 @@
 /** The in-memory wrapper around the tokenizer: the same Delivery over a string. */
-import { BatchBuilder } from './tokenizer.ts';
+import { BatchStream } from './tokenizer.ts';
 import { parseHeader, tokenizerFor, type HeaderSettings } from './header.ts';
 import { detectDelimiter, detectNewline, looksBinary } from './detect.ts';
 import { defaultBatchRows, normalizeReadOptions } from './options.ts';
@@ -12,22 +12,12 @@ async function* textBatches(text: string, from: number, firstLine: number, s: He
   const { blockSize } = s.options;
   const batchRows = s.options.batchRows ?? defaultBatchRows(columns);
   const tok = tokenizerFor(s, firstLine, true);
-  let row = 1;
-  let out = new BatchBuilder(row, batchRows);
+  const batches = new BatchStream(1, batchRows);
   for (let pos = from; ; ) {
     const next = Math.min(text.length, pos + blockSize);
     tok.push(text.slice(pos, next), next >= text.length);
     pos = next;
-    for (;;) {
-      const status = tok.fill(out, batchRows);
-      if (status === 'more') break;
-      if (out.count > 0) {
-        row += out.count;
-        yield out.finish();
-        out = new BatchBuilder(row, batchRows);
-      }
-      if (status === 'done') return;
-    }
+    if (yield* batches.drain(tok)) return;
   }
 }
 

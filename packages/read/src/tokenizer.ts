@@ -472,3 +472,34 @@ export function formatBytes(n: number): string {
   if (n >= 1024 && n % 1024 === 0) return `${n / 1024} KiB`;
   return `${n} bytes`;
 }
+
+/**
+ * Turns the rows a {@link Tokenizer} has ready into RowBatch objects of at most `batchRows`
+ * rows, numbered from `firstRow`: the one batching loop of the file and in-memory readers.
+ */
+export class BatchStream {
+  private row: number;
+  private out: BatchBuilder;
+
+  constructor(
+    firstRow: number,
+    private readonly batchRows: number,
+  ) {
+    this.row = firstRow;
+    this.out = new BatchBuilder(firstRow, batchRows);
+  }
+
+  /** Yields every batch the tokenizer can complete now; returns true once its input is exhausted. */
+  *drain(tok: Tokenizer): Generator<RowBatch, boolean> {
+    for (;;) {
+      const status = tok.fill(this.out, this.batchRows);
+      if (status === 'more') return false;
+      if (this.out.count > 0) {
+        this.row += this.out.count;
+        yield this.out.finish();
+        this.out = new BatchBuilder(this.row, this.batchRows);
+      }
+      if (status === 'done') return true;
+    }
+  }
+}
