@@ -104,7 +104,7 @@ export const asciiWidthFirst: Plugin = {
  * Builds both bundles into `outdir` (default dist/) unless they are newer than every source
  * file under packages/. Cost: a few seconds. Throws esbuild's error when a file does not compile.
  */
-export async function buildBundle(force = false, outdir = join(ROOT, 'dist')): Promise<void> {
+export async function buildBundle(force = false, outdir = join(ROOT, 'dist'), minify = true): Promise<void> {
   const cli = join(outdir, 'codeweir.mjs');
   const worker = join(outdir, 'check-worker.mjs');
   const stale = (f: string): boolean => force || !existsSync(f) || statSync(f).mtimeMs < newestSource(join(ROOT, 'packages'));
@@ -126,7 +126,7 @@ export async function buildBundle(force = false, outdir = join(ROOT, 'dist')): P
     format: 'esm',
     target: 'node20',
     sourcemap: true,
-    minify: true,
+    minify,
     logLevel: 'warning',
     plugins: [schemaBesideBundle, asciiWidthFirst],
     // CommonJS dependencies bundled into ESM call require() for Node's built-ins.
@@ -135,6 +135,13 @@ export async function buildBundle(force = false, outdir = join(ROOT, 'dist')): P
 }
 
 if (process.argv[1] && resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
+  // `--readable DIR`: an unminified bundle in DIR, for reading CPU profiles by function name.
+  const at = process.argv.indexOf('--readable');
+  if (at > 0) {
+    await buildBundle(true, resolve(process.argv[at + 1] ?? '.bench/readable'), false);
+    process.stdout.write(`built an unminified bundle in ${process.argv[at + 1] ?? '.bench/readable'}\n`);
+    process.exit(0);
+  }
   await buildBundle(true);
   process.stdout.write(`built ${BUNDLE}\n`);
 }

@@ -32,7 +32,7 @@ export interface ParallelOptions {
   threads?: number;
   /** Files smaller than this stay on one thread (worker start-up would cost more than it saves). Default 8 MiB. */
   minParallelBytes?: number;
-  /** Ranges per thread; more ranges balance uneven start-up and row cost. Default 4. */
+  /** Ranges per thread; more ranges balance uneven start-up and row cost. Default 6. */
   rangesPerThread?: number;
   /**
    * Whether the calling thread checks ranges too while the workers start (default true). With
@@ -56,7 +56,6 @@ interface WorkerInit {
 }
 type ToWorker = { index: number; range: ByteRange } | { stop: true };
 type FromWorker =
-  | { ready: true }
   | { index: number; partial: DetachedPartial }
   | { index: number; error: { code?: ErrorCode; message: string; codeweir: boolean } };
 
@@ -134,21 +133,40 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
   const single = async (): Promise<CheckResult> => checkDelivery(await openDelivery(path, readOptionsOf(options)), codebook, options);
   if (threads === 1 || size < (minParallelBytes ?? DEFAULT_MIN_PARALLEL_BYTES)) return single();
 
-  const wanted = Math.max(threads, Math.min(threads * (rangesPerThread ?? 4), Math.floor(size / MIN_RANGE_BYTES)));
-  const ranges = await splitDelivery(path, minParallelBytes === 0 ? threads * (rangesPerThread ?? 4) : wanted, readOptionsOf(options));
-  if (ranges.length <= 1) return single();
+  const caller = useCallingThread ?? true;
+  const perThread = rangesPerThread ?? 6;
+  const wanted = minParallelBytes === 0 ? threads * perThread : Math.max(threads, Math.min(threads * perThread, Math.floor(size / MIN_RANGE_BYTES)));
+  if (wanted <= 1) return single();
+  const entry = workerEntry();
+  const init: WorkerInit = { marker: MARKER, path, source: codebook.source, codebookFile: codebook.file, options };
+  // Workers start loading before the file is split: their start-up overlaps the split scan.
+  const workers: Worker[] = [];
+  for (let t = caller ? 1 : 0; t < Math.min(threads, wanted); t++) workers.push(new Worker(entry.file, { eval: entry.eval, workerData: init }));
+  let ranges: ByteRange[];
+  try {
+    // Sizes shrink towards the end of the file (the last quarter in ranges half as big), so the
+    // threads run out of work at about the same time. Rows are numbered when merging.
+    ranges = await splitDelivery(path, rangeShares(wanted), readOptionsOf(options), { numbered: false });
+  } catch (e) {
+    await Promise.all(workers.map((w) => w.terminate()));
+    throw e;
+  }
+  if (ranges.length <= 1) {
+    await Promise.all(workers.map((w) => w.terminate()));
+    return single();
+  }
 
   const partials: Array<PartialResult | undefined> = new Array(ranges.length);
   let next = 0;
   let failure: Error | undefined;
-  const workers: Worker[] = [];
-  const entry = workerEntry();
-  const init: WorkerInit = { marker: MARKER, path, source: codebook.source, codebookFile: codebook.file, options };
 
   const serveWorker = (w: Worker): Promise<void> =>
     new Promise<void>((resolve) => {
+      let stopped = false;
       const give = (): void => {
+        if (stopped) return;
         if (failure || next >= ranges.length) {
+          stopped = true;
           w.postMessage({ stop: true } satisfies ToWorker);
           return;
         }
@@ -156,7 +174,6 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
         w.postMessage({ index, range: ranges[index]! } satisfies ToWorker);
       };
       w.on('message', (m: FromWorker) => {
-        if ('ready' in m) return give();
         if ('error' in m) {
           failure ??= rebuildError(m.error);
           return give();
@@ -169,16 +186,14 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
         resolve();
       });
       w.on('exit', () => resolve());
+      // Two ranges queued at once: the worker never waits for this thread to answer a message
+      // (it answers only between its own reads, which can be most of a second apart).
+      give();
+      give();
     });
 
-  const served: Promise<void>[] = [];
-  const caller = useCallingThread ?? true;
-  for (let t = caller ? 1 : 0; t < Math.min(threads, ranges.length); t++) {
-    const w = new Worker(entry.file, { eval: entry.eval, workerData: init });
-    workers.push(w);
-    served.push(serveWorker(w));
-  }
-  // The calling thread works through the queue too, from the front, while the workers start.
+  const served = workers.map(serveWorker);
+  // The calling thread works through the queue too.
   try {
     while (caller && !failure && next < ranges.length) {
       const index = next++;
@@ -208,19 +223,42 @@ async function serve(init: WorkerInit): Promise<void> {
     port.postMessage({ index: -1, error: { message: (e as Error).message, code: isCodeweirError(e) ? e.code : undefined, codeweir: isCodeweirError(e) } } satisfies FromWorker);
     return;
   }
-  port.on('message', async (m: ToWorker) => {
-    if ('stop' in m) {
-      port.close();
-      return;
+  // Ranges are served one at a time, in the order they came (several may be queued).
+  const queue: ToWorker[] = [];
+  let busy = false;
+  const drain = async (): Promise<void> => {
+    busy = true;
+    for (let m = queue.shift(); m !== undefined; m = queue.shift()) {
+      if ('stop' in m) {
+        port.close();
+        return;
+      }
+      try {
+        const partial = detachPartial(await passOverRange(init.path, m.range, codebook, init.options));
+        port.postMessage({ index: m.index, partial } satisfies FromWorker, transferables(partial));
+      } catch (e) {
+        port.postMessage({ index: m.index, error: { message: (e as Error).message, code: isCodeweirError(e) ? e.code : undefined, codeweir: isCodeweirError(e) } } satisfies FromWorker);
+      }
     }
-    try {
-      const partial = detachPartial(await passOverRange(init.path, m.range, codebook, init.options));
-      port.postMessage({ index: m.index, partial } satisfies FromWorker, transferables(partial));
-    } catch (e) {
-      port.postMessage({ index: m.index, error: { message: (e as Error).message, code: isCodeweirError(e) ? e.code : undefined, codeweir: isCodeweirError(e) } } satisfies FromWorker);
-    }
+    busy = false;
+  };
+  port.on('message', (m: ToWorker) => {
+    queue.push(m);
+    if (!busy) void drain();
   });
-  port.postMessage({ ready: true } satisfies FromWorker);
+}
+
+/**
+ * Relative sizes of `n` ranges: the first three quarters of the file in equal ranges, the last
+ * quarter in ranges half that size, so no thread is left with a big range when the others finish.
+ */
+export function rangeShares(n: number): number[] {
+  if (n < 4) return new Array<number>(n).fill(1);
+  const small = Math.max(1, Math.round(n / 2));
+  const big = n - small;
+  const bigSize = 3 / (4 * big);
+  const smallSize = 1 / (4 * small);
+  return [...new Array<number>(big).fill(bigSize), ...new Array<number>(small).fill(smallSize)];
 }
 
 if (!isMainThread && (workerData as WorkerInit | undefined)?.marker === MARKER) {

@@ -151,3 +151,17 @@ describe('checkFileParallel', () => {
     await expect(checkFileParallel(file, cb, { threads: 0 })).rejects.toThrow('--threads takes a whole number of at least 1, got 0.');
   });
 });
+
+describe('rangeShares', () => {
+  it('puts three quarters of the file in equal ranges and the last quarter in half-size ones', async () => {
+    const { rangeShares } = await import('../src/parallel.ts');
+    // First principles: 12 ranges = 6 of 3/24 (= 3/4 in all) then 6 of 1/24 (= 1/4 in all).
+    const s = rangeShares(12);
+    expect(s).toHaveLength(12);
+    expect(s.slice(0, 6).every((x) => Math.abs(x - 3 / 24) < 1e-15)).toBe(true);
+    expect(s.slice(6).every((x) => Math.abs(x - 1 / 24) < 1e-15)).toBe(true);
+    expect(s.reduce((a, b) => a + b, 0)).toBeCloseTo(1, 12);
+    // Fewer than four ranges stay equal.
+    expect(rangeShares(3)).toEqual([1, 1, 1]);
+  });
+});

@@ -178,7 +178,7 @@ function binaryError(file: string): CodeweirError {
 
 /**
  * Streams the rows in bytes [range.start, range.end) of a file whose layout is known. The range
- * must start at a row boundary. Rows are numbered from range.firstRow (default 1), lines from
+ * must start at a row boundary. Rows are numbered from range.firstRow (default 1; 0 also means unknown), lines from
  * range.firstLine (default 1). Memory: two read buffers, one decoded block and one batch.
  */
 export async function* rangeBatches(layout: Layout, range: ByteRange): AsyncGenerator<RowBatch> {
@@ -186,7 +186,7 @@ export async function* rangeBatches(layout: Layout, range: ByteRange): AsyncGene
   const { fh } = await openForRead(file);
   try {
     const end = Math.min(range.end, layout.size);
-    const tok = tokenizerFor(layout, range.firstLine ?? 1, end >= layout.size);
+    const tok = tokenizerFor(layout, range.firstLine || 1, end >= layout.size);
     const decoder = makeDecoder(layout.encoding);
     const blockSize = Math.max(4, Math.min(options.blockSize, Math.max(end - range.start, 4)));
     const buffers = [new Uint8Array(blockSize), new Uint8Array(blockSize)];
@@ -194,7 +194,7 @@ export async function* rangeBatches(layout: Layout, range: ByteRange): AsyncGene
     let pos = range.start;
     const read = (into: Uint8Array, at: number) => readAt(fh, file, into, Math.min(into.length, end - at), at);
     let pending: Promise<number> | undefined = pos < end ? read(buffers[0] as Uint8Array, pos) : undefined;
-    const batches = new BatchStream(range.firstRow ?? 1, options.batchRows ?? defaultBatchRows(layout.header.length));
+    const batches = new BatchStream(range.firstRow || 1, options.batchRows ?? defaultBatchRows(layout.header.length));
     for (;;) {
       let text = '';
       let final = true;

@@ -116,4 +116,31 @@ describe('splitDelivery', () => {
     expect(await splitDelivery(u, 3)).toHaveLength(1);
     await expect(splitDelivery(p, 0)).rejects.toMatchObject({ code: 'CW_USAGE' });
   });
+
+  it('cuts at the same row boundaries without numbering rows, for every part count and block size', async () => {
+    // The unnumbered scan skips newlines between cuts; the boundaries must not move.
+    for (const eol of ['\n', '\r\n']) {
+      const text = trickyText(300, eol);
+      const p = join(dir, `unnumbered-${eol.length}.csv`);
+      writeFileSync(p, text);
+      for (const [parts, blockSize] of [[2, undefined], [3, 7], [7, 64], [40, 13]] as const) {
+        const numbered = await splitDelivery(p, parts, { blockSize });
+        const bare = await splitDelivery(p, parts, { blockSize }, { numbered: false });
+        expect(bare.map((r) => [r.start, r.end])).toEqual(numbered.map((r) => [r.start, r.end]));
+        expect(bare.slice(1).every((r) => r.firstRow === 0 && r.firstLine === 0)).toBe(true);
+      }
+    }
+  });
+
+  it('cuts in the relative sizes given, at row boundaries', async () => {
+    // 1,000 rows of 4 bytes ("NNN\n"): shares 3:1 put the cut at the first boundary at or after
+    // 3/4 of the data bytes, i.e. after row 750 (first principles: equal-length rows).
+    const p = join(dir, 'shares.csv');
+    writeFileSync(p, 'a\n' + Array.from({ length: 1000 }, (_, i) => `${String(i % 1000).padStart(3, '0')}\n`).join(''));
+    const ranges = await splitDelivery(p, [3, 1]);
+    expect(ranges).toHaveLength(2);
+    expect(ranges[0]!.end - ranges[0]!.start).toBe(3000);
+    expect(ranges[1]!.firstRow).toBe(751);
+    await expect(splitDelivery(p, [1, 0])).rejects.toMatchObject({ code: 'CW_USAGE' });
+  });
 });
