@@ -7,14 +7,7 @@ import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { mkdtemp, rm, writeFile, readFile, readdir } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { run } from '../packages/cli/src/cli.ts';
-
-async function cli(argv: string[], cwd: string): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const code = await run(argv, { stdout: (t) => void (out += t), stderr: (t) => void (err += t), isTTY: false, cwd });
-  return { code, out, err };
-}
+import { cli } from './support/cli.ts';
 
 const codebook = {
   codebook: 'check-cli-test',

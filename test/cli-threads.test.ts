@@ -9,27 +9,9 @@ import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { mkdtemp, rm, readFile, readdir, stat, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { run } from '../packages/cli/src/cli.ts';
+import { cli } from './support/cli.ts';
+import { countingWorkers } from '../packages/check/test/helpers.ts';
 import { generateDelivery, type GeneratedDelivery } from '../bench/generate.ts';
-
-async function cli(argv: string[], cwd: string): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const code = await run(argv, { stdout: (t) => void (out += t), stderr: (t) => void (err += t), isTTY: false, cwd });
-  return { code, out, err };
-}
-
-/** Worker threads started while `f` runs (Node emits 'worker' on process for each new one). */
-async function countingWorkers<T>(f: () => Promise<T>): Promise<{ value: T; workers: number }> {
-  let workers = 0;
-  const seen = (): void => void workers++;
-  process.on('worker', seen);
-  try {
-    return { value: await f(), workers };
-  } finally {
-    process.off('worker', seen);
-  }
-}
 
 let dir = '';
 let gen: GeneratedDelivery;

@@ -3,7 +3,7 @@ import { mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
 import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { run } from '../packages/cli/src/cli.ts';
+import { cli } from './support/cli.ts';
 import type { DescribeResult } from '../packages/describe/src/index.ts';
 
 interface RSample {
@@ -17,13 +17,6 @@ const R = JSON.parse(await readFile(new URL('./reference/r-oracle.json', import.
 const { parse } = createRequire(new URL('../packages/read/package.json', import.meta.url))('csv-parse/sync') as {
   parse: (input: string, options: Record<string, unknown>) => string[][];
 };
-
-async function cli(argv: string[], cwd: string): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const code = await run(argv, { stdout: (t) => void (out += t), stderr: (t) => void (err += t), isTTY: false, cwd });
-  return { code, out, err };
-}
 
 let dir = '';
 const odd7 = R.samples.odd7!;

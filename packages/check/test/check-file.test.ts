@@ -11,7 +11,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { isCodeweirError } from '@codeweir/core';
 import { checkFile } from '../src/index.ts';
-import { codebook, idItem, employedItem } from './helpers.ts';
+import { codebook, idItem, employedItem, countingWorkers } from './helpers.ts';
 
 const { parse } = createRequire(new URL('../../read/package.json', import.meta.url))('csv-parse/sync') as {
   parse: (input: string, options: Record<string, unknown>) => string[][];
@@ -26,18 +26,6 @@ async function caught(p: Promise<unknown>): Promise<unknown> {
     return e;
   }
   throw new Error('expected a rejection');
-}
-
-/** Worker threads started while `f` runs (Node emits 'worker' on process for each new one). */
-async function countingWorkers<T>(f: () => Promise<T>): Promise<{ value: T; workers: number }> {
-  let workers = 0;
-  const seen = (): void => void workers++;
-  process.on('worker', seen);
-  try {
-    return { value: await f(), workers };
-  } finally {
-    process.off('worker', seen);
-  }
 }
 
 let dir = '';

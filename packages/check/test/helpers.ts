@@ -40,3 +40,15 @@ export const employedItem = {
   ],
   missing: [{ code: -9, kind: 'refused' }],
 };
+
+/** Worker threads started while `f` runs (Node emits 'worker' on process for each new one). */
+export async function countingWorkers<T>(f: () => Promise<T>): Promise<{ value: T; workers: number }> {
+  let workers = 0;
+  const seen = (): void => void workers++;
+  process.on('worker', seen);
+  try {
+    return { value: await f(), workers };
+  } finally {
+    process.off('worker', seen);
+  }
+}
