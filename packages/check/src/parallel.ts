@@ -135,13 +135,13 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
 
   const caller = useCallingThread ?? true;
   const perThread = rangesPerThread ?? 6;
+  // At least `threads` ranges (threads >= 2 here), at most perThread each, none under MIN_RANGE_BYTES.
   const wanted = minParallelBytes === 0 ? threads * perThread : Math.max(threads, Math.min(threads * perThread, Math.floor(size / MIN_RANGE_BYTES)));
-  if (wanted <= 1) return single();
   const entry = workerEntry();
   const init: WorkerInit = { marker: MARKER, path, source: codebook.source, codebookFile: codebook.file, options };
   // Workers start loading before the file is split: their start-up overlaps the split scan.
   const workers: Worker[] = [];
-  for (let t = caller ? 1 : 0; t < Math.min(threads, wanted); t++) workers.push(new Worker(entry.file, { eval: entry.eval, workerData: init }));
+  for (let t = caller ? 1 : 0; t < threads; t++) workers.push(new Worker(entry.file, { eval: entry.eval, workerData: init }));
   let ranges: ByteRange[];
   try {
     // Sizes shrink towards the end of the file (the last quarter in ranges half as big), so the

@@ -53,6 +53,8 @@ async function scanBoundaries(layout: Layout, targets: number[], numbered: boole
   let rows = 0;
   let lines = 0;
   let k = 0;
+  /** Index in this block before which no newline can end the range that the next cut closes. */
+  const nearCut = (base: number): number => (targets[k] as number) - base - (crMode ? 2 : 1);
   const fieldStarts = (before: number, before2: number): boolean =>
     before === delim || before === nl || (crMode && before === LF && before2 === CR);
   try {
@@ -71,7 +73,7 @@ async function scanBoundaries(layout: Layout, targets: number[], numbered: boole
         const stop = q === -1 ? n : q;
         // Between here and the next quote every newline ends a row unless a field is quoted.
         // Unnumbered, only newlines at or after the next cut matter: jump to the first of them.
-        const from = numbered || quoted ? i : Math.max(i, (targets[k] as number) - base - (crMode ? 2 : 1));
+        const from = numbered || quoted ? i : Math.max(i, nearCut(base));
         for (let j = from < stop ? buf.indexOf(nl, from) : -1; j !== -1 && j < stop; j = buf.indexOf(nl, j + 1)) {
           lines++;
           if (quoted) continue;
@@ -87,7 +89,7 @@ async function scanBoundaries(layout: Layout, targets: number[], numbered: boole
             while (k < targets.length && after >= (targets[k] as number)) k++;
             if (k >= targets.length) break;
             if (!numbered) {
-              const jump = (targets[k] as number) - base - (crMode ? 2 : 1);
+              const jump = nearCut(base);
               if (jump > j + 1) j = Math.min(jump, stop) - 1;
             }
           }
