@@ -8,7 +8,7 @@
  */
 import type { CompiledCodebook, CompiledExpression } from '@codeweir/codebook';
 import type { RowBatch } from '@codeweir/read';
-import { compileClassifiers, KINDS, MISSING, VALID, type ItemClassifier } from './classify.ts';
+import { compileClassifiers, INVALID, KINDS, MISSING, VALID, VALID_WARN, type ItemClassifier } from './classify.ts';
 import { mapHeader, type HeaderMap } from './header.ts';
 import { normalizeCheckOptions, type CheckOptions, type CheckOptionsInput } from './options.ts';
 import { rules, RULE_NUMBER, RULE_ORDER } from './rules/index.ts';
@@ -26,6 +26,8 @@ const ST_VALID = 0;
 const ST_MISSING = 1;
 const ST_INVALID = 2;
 const ST_ABSENT = 3;
+/** Cell outcome past the end of a ragged row: invalid, explained by the row's ragged-row finding. */
+const CELL_ABSENT = 4;
 /** The tally number of the `not-applicable` kind (a valid skip). */
 const NOT_APPLICABLE = KINDS.indexOf('not-applicable');
 /** Group key of a row whose group cell is missing (or whose group column is absent). */
@@ -140,7 +142,10 @@ function cutValue(v: string): string {
  * the fields present are checked; cells past the row's end count as invalid (the ragged-row
  * finding explains them); extra fields are ignored. A row's group key (missingness by group,
  * the group codes of its findings) comes from the group cell's own classification.
- * Cost: O(items + codes) to set up; push is O(rows x items) with no allocation per cell.
+ * Cost: O(items + codes) to set up; push is O(rows x items) with no allocation per cell: a batch
+ * is classified and tallied one item (column) at a time into per-batch scratch arrays, then walked
+ * row by row for findings (in row order, so the per-rule cap keeps the same findings), unique
+ * values, routing and rules.
  * Memory: the retained columns (8 bytes a row per numeric item and the numeric id, 2 per coded
  * item, 4 per group item) in chunks; `expectedRows` (optional, e.g. estimated from the file
  * size) sizes the first chunk, so a good estimate means one allocation per column and no copy.
@@ -241,10 +246,12 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
   const uniqueList = uniques.map((u, i) => (u ? i : -1)).filter((i) => i >= 0);
 
   const groupItems = codebook.groupItems;
+  const KEY_STRIDE = nItems * SLOTS;
   const groupStates = groupItems.map((g) => ({
     index: g.index,
     keys: [] as string[],
-    tallies: [] as Float64Array[],
+    /** The tallies of every key, key after key (items x SLOTS each): one flat array, so a cell's count is one increment. */
+    flat: new Float64Array(4 * KEY_STRIDE),
     keyOf: new Map<string, number>(),
     rowKeys: new Chunked(Uint32Array, expectedRows),
   }));
@@ -253,7 +260,11 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     if (k === undefined) {
       k = gs.keys.length;
       gs.keys.push(key);
-      gs.tallies.push(new Float64Array(nItems * SLOTS));
+      if ((k + 1) * KEY_STRIDE > gs.flat.length) {
+        const grown = new Float64Array(gs.flat.length * 2);
+        grown.set(gs.flat);
+        gs.flat = grown;
+      }
       gs.keyOf.set(key, k);
     }
     return k;
@@ -286,103 +297,203 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     return true;
   };
 
+  // Per-batch scratch, one set per present item (index k in present order): the outcome of
+  // each row's cell, then its kind (missing) or rule (findings), number, code index and text.
+  let scratchRows = 0;
+  const cellState: Uint8Array[] = [];
+  const cellAux: Uint8Array[] = [];
+  const cellNum: Float64Array[] = [];
+  const cellCode: Int32Array[] = [];
+  const cellText: Array<string[] | null> = [];
+  /** Present items missing in each row of the batch, and whether the row has a cell finding. */
+  let rowMissing = new Uint16Array(0);
+  let rowFlag = new Uint8Array(0);
+  const presentAt = new Int32Array(nItems).fill(-1);
+  for (let k = 0; k < nPresent; k++) presentAt[presentIdx[k]!] = k;
+  // Items whose per-row state the row loop reads: routing and rule variables, routed, unique and id items.
+  const rowNeeded = [
+    ...new Set([...routed.flatMap((r) => [r.item, ...r.vars]), ...ruleSlots.flatMap((r) => [...r.testVars, ...r.whenVars]), ...uniqueList, idIndex]),
+  ].filter((i) => i >= 0 && i < nItems && presentAt[i]! >= 0);
+
+  const ensureCapacity = (n: number): void => {
+    if (n <= scratchRows) return;
+    scratchRows = Math.max(n, scratchRows * 2);
+    for (let k = 0; k < nPresent; k++) {
+      cellState[k] = new Uint8Array(scratchRows);
+      cellAux[k] = new Uint8Array(scratchRows);
+      cellNum[k] = new Float64Array(scratchRows);
+      cellCode[k] = new Int32Array(scratchRows);
+      cellText[k] = keepText[presentIdx[k]!] ? new Array<string>(scratchRows).fill('') : null;
+    }
+    rowMissing = new Uint16Array(scratchRows);
+    rowFlag = new Uint8Array(scratchRows);
+  };
+
   let fields: string[] = [];
+  let offsets: Uint32Array = new Uint32Array(1);
   let f64Cols: Array<Float64Array | null> = [];
   let u16Cols: Array<Uint16Array | null> = [];
   let rowKeyData: Uint32Array[] = [];
   const nGroups = groupStates.length;
-  const rowTallies: Float64Array[] = groupStates.map(() => tallies);
+  const groupFlat: Float64Array[] = groupStates.map((gs) => gs.flat);
 
-  /** Classifies the k-th present cell of the row into the per-row scratch, noting its findings. */
-  const classifyCell = (k: number, row: number, start: number, nf: number): void => {
+  /**
+   * Classifies the cells of the k-th present item in rows 0..n-1 of the batch into the scratch.
+   * One item at a time, so the loop calls one classifier and its data stays in cache.
+   */
+  const scanColumn = (k: number, n: number): void => {
     const i = presentIdx[k]!;
     const pos = presentPos[k]!;
-    if (pos >= nf) {
-      state[i] = ST_INVALID;
-      cellOf[i] = '';
-      return;
-    }
-    const cell = fields[start + pos]!;
-    cellOf[i] = cell;
-    const c = cls[i]!;
-    const st = c.classify(cell);
-    if (out.spaced) trimmed[i]++;
-    if (st === VALID || st === 1) {
-      state[i] = ST_VALID;
-      if (coded[i]) codeIdx[i] = out.code;
-      num[i] = out.num;
-      if (keepText[i]) text[i] = out.text;
-      if (needVal[i]) val[i] = c.celValue(out);
-      if (st !== VALID && count(out.rule, i, 1)) {
-        pending.push({ row, id: '', item: c.item.name, value: cutValue(cell), rule: RULE_ORDER[out.rule]!, severity: 'warning', message: c.message(out.rule, cell.trim(), '') });
+    const classify = cls[i]!.classify;
+    const st = cellState[k]!;
+    const aux = cellAux[k]!;
+    const nums = cellNum[k]!;
+    const codes = cellCode[k]!;
+    const texts = cellText[k]!;
+    let spaced = 0;
+    let unb = 0;
+    for (let r = 0; r < n; r++) {
+      const start = offsets[r]!;
+      if (pos >= offsets[r + 1]! - start) {
+        st[r] = CELL_ABSENT;
+        continue;
       }
-    } else if (st === MISSING) {
+      const s = classify(fields[start + pos]!);
+      st[r] = s;
+      if (out.spaced) spaced++;
+      if (s <= VALID_WARN) {
+        nums[r] = out.num;
+        codes[r] = out.code;
+        if (texts !== null) texts[r] = out.text;
+        if (s !== VALID) aux[r] = out.rule;
+      } else if (s === MISSING) aux[r] = out.kind;
+      else {
+        aux[r] = out.rule;
+        if (out.unbinned) unb++;
+      }
+    }
+    trimmed[i] += spaced;
+    unbinned[i] += unb;
+  };
+
+  /** Tallies the scanned cells of the k-th present item (overall and by group) and retains their values. */
+  const tallyColumn = (k: number, n: number): void => {
+    const i = presentIdx[k]!;
+    const st = cellState[k]!;
+    const aux = cellAux[k]!;
+    const base = i * SLOTS;
+    const u16 = u16Cols[i]!;
+    const f64 = f64Cols[i]!;
+    const codes = cellCode[k]!;
+    const nums = cellNum[k]!;
+    for (let r = 0; r < n; r++) {
+      const s = st[r]!;
+      const valid = s <= VALID_WARN;
+      const slot = base + (valid ? 0 : s === MISSING ? 2 + aux[r]! : 1);
+      tallies[slot]++;
+      for (let g = 0; g < nGroups; g++) groupFlat[g]![rowKeyData[g]![r]! * KEY_STRIDE + slot]++;
+      if (u16 !== null) u16[r] = valid ? codes[r]! + 1 : 0;
+      else if (f64 !== null) f64[r] = valid ? nums[r]! : Number.NaN;
+      if (s === MISSING) rowMissing[r]++;
+      else if (s === VALID_WARN || s === INVALID) rowFlag[r] = 1;
+    }
+  };
+
+  /** The row's key in each group item, from the group cells' classification. */
+  const groupKeysOf = (r: number): void => {
+    for (let g = 0; g < nGroups; g++) {
+      const gs = groupStates[g]!;
+      const gi = gs.index;
+      const k = presentAt[gi]!;
+      const s = k < 0 ? MISSING : cellState[k]![r]!;
+      let key: number;
+      if (s === MISSING) key = groupKey(gs, GROUP_MISSING);
+      else if (s > VALID_WARN) key = groupKey(gs, GROUP_INVALID);
+      else if (coded[gi]) {
+        const cache = codeKeyCache[g]!;
+        const ci = cellCode[k]![r]!;
+        key = cache[ci]!;
+        if (key < 0) key = cache[ci] = groupKey(gs, codebook.items[gi]!.codes[ci]!.text);
+      } else key = groupKey(gs, idNumericLike(cls[gi]!) ? String(cellNum[k]![r]!) : cellText[k]![r]!);
+      rowKeyData[g]![r] = key;
+    }
+  };
+
+  /** Raw text of item i's cell in row r of the batch ('' past the end of a ragged row). */
+  const rawCell = (i: number, r: number): string => {
+    const start = offsets[r]!;
+    const pos = hmap.positions[i]!;
+    return pos >= 0 && pos < offsets[r + 1]! - start ? fields[start + pos]! : '';
+  };
+
+  /** Loads the per-row scratch (state, kind, number, code, text, CEL value) of item i for row r. */
+  const loadRowState = (i: number, r: number): void => {
+    const k = presentAt[i]!;
+    const s = cellState[k]![r]!;
+    cellOf[i] = rawCell(i, r);
+    if (s <= VALID_WARN) {
+      state[i] = ST_VALID;
+      num[i] = cellNum[k]![r]!;
+      codeIdx[i] = cellCode[k]![r]!;
+      const texts = cellText[k];
+      if (texts !== null) text[i] = texts![r]!;
+      if (needVal[i]) {
+        out.num = num[i]!;
+        out.code = codeIdx[i]!;
+        out.text = text[i]!;
+        val[i] = cls[i]!.celValue(out);
+      }
+    } else if (s === MISSING) {
       state[i] = ST_MISSING;
-      kind[i] = out.kind;
-    } else {
-      state[i] = ST_INVALID;
-      if (out.unbinned) unbinned[i]++;
-      if (count(out.rule, i, 0)) {
-        const f: Finding = { row, id: '', item: c.item.name, value: cutValue(cell), rule: RULE_ORDER[out.rule]!, severity: 'error', message: c.message(out.rule, cell.trim(), out.suggestion) };
-        if (out.rule === R['unbinned-value']) f.suggestion = out.suggestion;
+      kind[i] = cellAux[k]![r]!;
+    } else state[i] = ST_INVALID;
+  };
+
+  /** The findings of the cells of row r, in present order (the order a row is read in). */
+  const cellFindings = (r: number, row: number): void => {
+    for (let k = 0; k < nPresent; k++) {
+      const s = cellState[k]![r]!;
+      if (s !== VALID_WARN && s !== INVALID) continue;
+      const i = presentIdx[k]!;
+      const c = cls[i]!;
+      const rule = cellAux[k]![r]!;
+      const cell = rawCell(i, r);
+      if (s === VALID_WARN) {
+        if (count(rule, i, 1)) pending.push({ row, id: '', item: c.item.name, value: cutValue(cell), rule: RULE_ORDER[rule]!, severity: 'warning', message: c.message(rule, cell.trim(), '') });
+      } else if (count(rule, i, 0)) {
+        // The suggestion of an unbinned value is not kept per cell: classifying again gives it.
+        const suggestion = rule === R['unbinned-value'] ? (c.classify(cell), out.suggestion) : '';
+        const f: Finding = { row, id: '', item: c.item.name, value: cutValue(cell), rule: RULE_ORDER[rule]!, severity: 'error', message: c.message(rule, cell.trim(), suggestion) };
+        if (rule === R['unbinned-value']) f.suggestion = suggestion;
         pending.push(f);
       }
     }
   };
 
-  /** The row's key in each group item, from the group cells' classification. */
-  const groupKeysOf = (at: number): void => {
-    for (let g = 0; g < groupStates.length; g++) {
-      const gs = groupStates[g]!;
-      const gi = gs.index;
-      let key: number;
-      if (absent[gi] || state[gi] === ST_MISSING) key = groupKey(gs, GROUP_MISSING);
-      else if (state[gi] === ST_INVALID) key = groupKey(gs, GROUP_INVALID);
-      else if (coded[gi]) {
-        const cache = codeKeyCache[g]!;
-        const ci = codeIdx[gi]!;
-        key = cache[ci]!;
-        if (key < 0) key = cache[ci] = groupKey(gs, codebook.items[gi]!.codes[ci]!.text);
-      } else key = groupKey(gs, idNumericLike(cls[gi]!) ? String(num[gi]) : text[gi]!);
-      rowKeyData[g]![at] = key;
-    }
-    for (let g = 0; g < nGroups; g++) rowTallies[g] = groupStates[g]!.tallies[rowKeyData[g]![at]!]!;
-  };
-
-  /** Tallies item i of the row (overall and in its groups) and retains its value; 1 when missing. */
-  const tallyCell = (i: number, at: number): number => {
-    const s = state[i]!;
-    const slot = i * SLOTS + (s === ST_VALID ? 0 : s === ST_INVALID ? 1 : 2 + kind[i]!);
-    tallies[slot]++;
-    for (let g = 0; g < nGroups; g++) rowTallies[g]![slot]++;
-    const u16 = u16Cols[i];
-    if (u16 !== null) u16[at] = s === ST_VALID ? codeIdx[i]! + 1 : 0;
-    else {
-      const f64 = f64Cols[i];
-      if (f64 !== null) f64[at] = s === ST_VALID ? num[i]! : Number.NaN;
-    }
-    return s === ST_MISSING ? 1 : 0;
-  };
-
-  /** A routing finding made a valid cell invalid after it was tallied: move it, drop its value. */
-  const untallyValid = (i: number, at: number): void => {
+  /** A routing finding made a valid cell of row r invalid after it was tallied: move it, drop its value. */
+  const untallyValid = (i: number, r: number): void => {
     state[i] = ST_INVALID;
     tallies[i * SLOTS]--;
     tallies[i * SLOTS + 1]++;
     for (let g = 0; g < nGroups; g++) {
-      rowTallies[g]![i * SLOTS]--;
-      rowTallies[g]![i * SLOTS + 1]++;
+      const t = groupStates[g]!.flat;
+      const at = rowKeyData[g]![r]! * KEY_STRIDE + i * SLOTS;
+      t[at]--;
+      t[at + 1]++;
     }
     const u16 = u16Cols[i];
-    if (u16 !== null) u16[at] = 0;
+    if (u16 !== null) u16[r] = 0;
     const f64 = f64Cols[i];
-    if (f64 !== null) f64[at] = Number.NaN;
+    if (f64 !== null) f64[r] = Number.NaN;
   };
 
   const push = (batch: RowBatch): void => {
     const n = batch.count;
     fields = batch.fields;
-    const offsets = batch.offsets;
+    offsets = batch.offsets;
+    ensureCapacity(n);
+    rowMissing.fill(0, 0, n);
+    rowFlag.fill(0, 0, n);
     // Split by element type so each store below stays monomorphic.
     f64Cols = [];
     u16Cols = [];
@@ -394,24 +505,28 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     }
     const idNumData = idNumbers ? idNumbers.reserve(n) : null;
     rowKeyData = groupStates.map((gs) => gs.rowKeys.reserve(n));
+    // Column by column: group items first (every other tally needs the row's group keys).
+    // Retained values are written into this batch's windows (see Chunked.reserve), from 0.
+    for (let k = 0; k < nGroupPresent; k++) scanColumn(k, n);
+    for (let r = 0; r < n; r++) groupKeysOf(r);
+    // Read after the keys are known: adding a key may have grown the flat tallies.
+    for (let g = 0; g < nGroups; g++) groupFlat[g] = groupStates[g]!.flat;
+    for (let k = 0; k < nGroupPresent; k++) tallyColumn(k, n);
+    for (let k = nGroupPresent; k < nPresent; k++) {
+      scanColumn(k, n);
+      tallyColumn(k, n);
+    }
+
+    // Then row by row, for what reads several cells of a row, and for the row's findings.
     for (let r = 0; r < n; r++) {
-      const start = offsets[r]!;
-      const nf = offsets[r + 1]! - start;
-      // Retained values are written into this batch's windows (see Chunked.reserve), from 0.
-      const at = r;
+      const nf = offsets[r + 1]! - offsets[r]!;
       const row = rows + 1;
       pending.length = 0;
       if (nf !== headerLen && count(R['ragged-row'], -1, 0)) {
         pending.push({ row, id: '', item: '', value: `${nf} fields`, rule: 'ragged-row', severity: 'error', message: rules['ragged-row'].message({ fields: nf, expected: headerLen }) });
       }
-      for (let k = 0; k < nGroupPresent; k++) classifyCell(k, row, start, nf);
-      groupKeysOf(at);
-      let nMissing = 0;
-      for (let k = 0; k < nGroupPresent; k++) nMissing += tallyCell(presentIdx[k]!, at);
-      for (let k = nGroupPresent; k < nPresent; k++) {
-        classifyCell(k, row, start, nf);
-        nMissing += tallyCell(presentIdx[k]!, at);
-      }
+      if (rowFlag[r]) cellFindings(r, row);
+      for (let q = 0; q < rowNeeded.length; q++) loadRowState(rowNeeded[q]!, r);
 
       // Unique values (first occurrence wins; later ones are findings but stay valid).
       for (let u = 0; u < uniqueList.length; u++) {
@@ -483,20 +598,20 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
           }
         }
       }
-      for (const i of skipInvalid) untallyValid(i, at);
+      for (const i of skipInvalid) untallyValid(i, r);
 
       // Id column, for findings made after the pass.
       if (idIndex >= 0) {
         if (idNumData) {
-          if (state[idIndex] === ST_VALID) idNumData[at] = num[idIndex]!;
+          if (state[idIndex] === ST_VALID) idNumData[r] = num[idIndex]!;
           else {
-            idNumData[at] = Number.NaN;
+            idNumData[r] = Number.NaN;
             idOdd.set(row, cellOf[idIndex]!.trim());
           }
         } else idTexts!.push(rowId());
       }
 
-      recordMissing[nMissing]++;
+      recordMissing[rowMissing[r]!]++;
 
       if (pending.length > 0) {
         const id = rowId();
@@ -526,7 +641,7 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     trimmed,
     unbinned,
     recordMissing,
-    groups: groupStates.map((gs) => ({ item: codebook.items[gs.index]!.name, keys: gs.keys, tallies: gs.tallies, rowKeys: gs.rowKeys.trimmed() })),
+    groups: groupStates.map((gs) => ({ item: codebook.items[gs.index]!.name, keys: gs.keys, tallies: gs.keys.map((_, k) => gs.flat.slice(k * KEY_STRIDE, (k + 1) * KEY_STRIDE)), rowKeys: gs.rowKeys.trimmed() })),
     columns: columns.map((c) => (c ? c.trimmed() : null)),
     ids: idIndex < 0 ? null : { numbers: idNumbers?.trimmed(), texts: idTexts ?? undefined, odd: idOdd },
     unique: uniques.map((u) => (u ? u.entries() : null)),
