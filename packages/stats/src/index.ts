@@ -1,5 +1,5 @@
 // Order statistics
-export { sortedCopy } from './sort.ts';
+export { sortedCopy, sortedValid } from './sort.ts';
 export { quantile, quantileSorted, type QuantileType } from './quantile.ts';
 export { quantilesInPlace, selectKth } from './select.ts';
 export { tukeyFences, OUTLIER_MULTIPLIER, EXTREME_MULTIPLIER, type Fences } from './fences.ts';

@@ -2,6 +2,7 @@
  * Ranks with ties averaged (the "average" or "fractional" ranking): tied values all get the mean
  * of the ranks they occupy, so the ranks always sum to n (n + 1) / 2.
  */
+import { radixSort } from './sort.ts';
 
 /**
  * 1-based ranks of `values`, ties given the average of the positions they span.
@@ -33,10 +34,9 @@ export interface SortedColumn {
  * of different pairs) or split it into sorted groups in one linear walk each.
  *
  * Convention: numeric order, -0 equal to 0 (stored as 0), NaN left out, stable.
- * Cost: O(n) time and about 24 bytes per value: an LSD radix sort (four 16-bit passes over the
- * IEEE 754 bits, passes where every value shares the digit skipped) carries each position along,
- * without comparator callbacks (a comparator sort of positions is several times slower than the
- * native value sort on a million values). Throws nothing.
+ * Cost: O(n) time and about 24 bytes per value: a radix sort (see `radixSort`) carries each
+ * position along, without comparator callbacks (a comparator sort of positions is several times
+ * slower than the native value sort on a million values). Throws nothing.
  *
  * @example sortColumn([30, NaN, 10, 20]) // { length: 4, order: [2, 3, 0], sorted: [10, 20, 30] }
  */
@@ -53,8 +53,8 @@ export function sortColumn(values: ArrayLike<number>): SortedColumn {
     positions[m] = i;
     m++;
   }
-  const { order, sorted } = radixSortWithPositions(keys.subarray(0, m), positions.subarray(0, m));
-  return { length: n, order, sorted };
+  const { order, sorted } = radixSort(keys.subarray(0, m), positions.subarray(0, m));
+  return { length: n, order: order!, sorted };
 }
 
 /**
@@ -91,66 +91,4 @@ export function ranksAlongOrder(column: SortedColumn, include?: Uint8Array): Flo
     k = end;
   }
   return ranks;
-}
-
-const LITTLE_ENDIAN = new Uint8Array(Uint32Array.of(1).buffer)[0] === 1;
-/** Offsets of the low and high 32-bit halves of a double within its two-word slot. */
-const LO = LITTLE_ENDIAN ? 0 : 1;
-const HI = LITTLE_ENDIAN ? 1 : 0;
-
-/**
- * Sorts NaN-free `keys` ascending (reusing their memory) and returns them with `positions`
- * permuted alongside.
- */
-function radixSortWithPositions(keys: Float64Array, positions: Uint32Array): { order: Uint32Array; sorted: Float64Array } {
-  const m = keys.length;
-  let src: Uint32Array = new Uint32Array(keys.buffer, keys.byteOffset, 2 * m);
-  // Map IEEE 754 bits to unsigned integers in numeric order: negatives have every bit flipped
-  // (larger magnitude sorts first), non-negatives only the sign bit.
-  for (let i = 0; i < m; i++) {
-    const hi = src[2 * i + HI];
-    if (hi & 0x80000000) {
-      src[2 * i + HI] = ~hi;
-      src[2 * i + LO] = ~src[2 * i + LO];
-    } else {
-      src[2 * i + HI] = hi | 0x80000000;
-    }
-  }
-  let dst: Uint32Array = new Uint32Array(2 * m);
-  let order: Uint32Array = positions;
-  let nextOrder: Uint32Array = new Uint32Array(m);
-  const count = new Uint32Array(65536);
-  for (let pass = 0; pass < 4; pass++) {
-    const word = pass < 2 ? LO : HI;
-    const shift = pass % 2 === 0 ? 0 : 16;
-    count.fill(0);
-    for (let i = 0; i < m; i++) count[(src[2 * i + word] >>> shift) & 0xffff]++;
-    // A digit every key shares cannot reorder anything.
-    if (m === 0 || count[(src[word] >>> shift) & 0xffff] === m) continue;
-    let sum = 0;
-    for (let d = 0; d < 65536; d++) {
-      const c = count[d];
-      count[d] = sum;
-      sum += c;
-    }
-    for (let i = 0; i < m; i++) {
-      const p = count[(src[2 * i + word] >>> shift) & 0xffff]++;
-      dst[2 * p] = src[2 * i];
-      dst[2 * p + 1] = src[2 * i + 1];
-      nextOrder[p] = order[i];
-    }
-    [src, dst] = [dst, src];
-    [order, nextOrder] = [nextOrder, order];
-  }
-  // Undo the bit mapping so the sorted words read back as the original doubles.
-  for (let i = 0; i < m; i++) {
-    const hi = src[2 * i + HI];
-    if (hi & 0x80000000) {
-      src[2 * i + HI] = hi & 0x7fffffff;
-    } else {
-      src[2 * i + HI] = ~hi;
-      src[2 * i + LO] = ~src[2 * i + LO];
-    }
-  }
-  return { order, sorted: new Float64Array(src.buffer, src.byteOffset, m) };
 }

@@ -1,3 +1,5 @@
+import { RADIX_MIN, radixSort } from './sort.ts';
+
 /**
  * Weighted mean sum(w x) / sum(w).
  *
@@ -59,8 +61,9 @@ export function weightedMoments(
  *
  * Convention: weighted ECDF inverse (type 1 analogue); zero and negative weights are ignored;
  * the share comparison allows 4 machine epsilons so that p = 0.5 on a table of exact halves is
- * not lost to rounding. Cost: O(n log n) for the sort. Throws nothing; NaN when no weight is
- * positive, p is outside [0, 1] or the lengths differ.
+ * not lost to rounding. Cost: O(n) by a radix sort from {@link RADIX_MIN} positive weights on,
+ * O(n log n) by a comparison sort below (see {@link weightedQuantiles}). Throws nothing; NaN when
+ * no weight is positive, p is outside [0, 1] or the lengths differ.
  * @example weightedQuantile([1, 2, 3], [1, 1, 2], 0.5) // 2
  */
 export function weightedQuantile(values: ArrayLike<number>, weights: ArrayLike<number>, p: number): number {
@@ -68,8 +71,17 @@ export function weightedQuantile(values: ArrayLike<number>, weights: ArrayLike<n
 }
 
 /**
- * Several weighted quantiles (see {@link weightedQuantile}) from one sort.
- * Cost: O(n log n + n k). Throws nothing.
+ * Several weighted quantiles (see {@link weightedQuantile}) from one sort and one cumulative
+ * walk; `ps` may come in any order and the answers follow it.
+ *
+ * Convention: as {@link weightedQuantile}. Ties keep their input order (a stable sort, -0 tied
+ * with +0), and the weights are summed along the sorted order, so the result is the same, bit
+ * for bit, as sorting positions with the comparator `values[a] - values[b]` and scanning from
+ * the start once per p. A NaN value among the positive weights (which that comparator does not
+ * order consistently) takes the comparator sort itself.
+ * Cost: O(n + k log k) for k probabilities with a radix sort (see `radixSort`) from
+ * {@link RADIX_MIN} positive weights on, O(n log n + k log k) with a comparison sort below.
+ * Throws nothing.
  */
 export function weightedQuantiles(
   values: ArrayLike<number>,
@@ -77,24 +89,71 @@ export function weightedQuantiles(
   ps: readonly number[],
 ): number[] {
   if (values.length !== weights.length) return ps.map(() => Number.NaN);
-  const idx: number[] = [];
+  let m = 0;
   let total = 0;
+  let comparable = true;
   for (let i = 0; i < values.length; i++) {
     if (weights[i]! > 0) {
-      idx.push(i);
+      m++;
       total += weights[i]!;
+      if (Number.isNaN(values[i]!)) comparable = false;
     }
   }
   if (!(total > 0)) return ps.map(() => Number.NaN);
-  idx.sort((a, b) => values[a]! - values[b]!);
-  const eps = 4 * Number.EPSILON;
-  return ps.map((p) => {
-    if (!(p >= 0 && p <= 1)) return Number.NaN;
-    let cum = 0;
-    for (const i of idx) {
-      cum += weights[i]!;
-      if (cum / total >= p - eps) return values[i]!;
+  const order = comparable && m >= RADIX_MIN ? radixOrder(values, weights, m) : comparatorOrder(values, weights);
+  return walkShares(values, weights, order, total, ps);
+}
+
+/** Positions with a positive weight, ascending by value, stable, via the radix sort. */
+function radixOrder(values: ArrayLike<number>, weights: ArrayLike<number>, m: number): Uint32Array {
+  const keys = new Float64Array(m);
+  const positions = new Uint32Array(m);
+  let k = 0;
+  for (let i = 0; i < values.length; i++) {
+    if (weights[i]! > 0) {
+      // Adding 0 turns -0 into +0, so the two tie as they do under `a - b`.
+      keys[k] = values[i]! + 0;
+      positions[k++] = i;
     }
-    return values[idx[idx.length - 1]!]!;
+  }
+  return radixSort(keys, positions).order!;
+}
+
+/** Positions with a positive weight, ascending by value, by Array.prototype.sort (stable). */
+function comparatorOrder(values: ArrayLike<number>, weights: ArrayLike<number>): number[] {
+  const idx: number[] = [];
+  for (let i = 0; i < values.length; i++) if (weights[i]! > 0) idx.push(i);
+  return idx.sort((a, b) => values[a]! - values[b]!);
+}
+
+/**
+ * For each p, the first value along `order` whose cumulative weight share reaches p - eps (the
+ * last value when none does), in one walk: the ps are visited in ascending order, and a share
+ * that misses one p misses every larger p too, so each p is answered at its first success.
+ */
+function walkShares(
+  values: ArrayLike<number>,
+  weights: ArrayLike<number>,
+  order: ArrayLike<number>,
+  total: number,
+  ps: readonly number[],
+): number[] {
+  const eps = 4 * Number.EPSILON;
+  const out = ps.map(() => Number.NaN);
+  const pending: number[] = [];
+  ps.forEach((p, j) => {
+    if (p >= 0 && p <= 1) pending.push(j);
   });
+  pending.sort((a, b) => ps[a]! - ps[b]!);
+  let next = 0;
+  let cum = 0;
+  for (let k = 0; k < order.length && next < pending.length; k++) {
+    const i = order[k]!;
+    cum += weights[i]!;
+    const share = cum / total;
+    while (next < pending.length && share >= ps[pending[next]!]! - eps) out[pending[next++]!] = values[i]!;
+  }
+  const last = values[order[order.length - 1]!]!;
+  while (next < pending.length) out[pending[next++]!] = last;
+  return out;
 }

@@ -1,7 +1,9 @@
 import { describe, it, expect } from 'vitest';
 import { weightedMean, weightedSd, weightedQuantile, weightedQuantiles } from '../src/weighted.ts';
 import { quantile } from '../src/quantile.ts';
+import { RADIX_MIN } from '../src/sort.ts';
 import { R, jStat, seeded } from './oracle.ts';
+import { awkwardDoubles, signed } from './awkward.ts';
 
 describe('weightedMean against R weighted.mean(x, 1:n)', () => {
   for (const name of ['ties10', 'odd7', 'normal1000', 'skewed500'] as const) {
@@ -49,5 +51,71 @@ describe('weightedQuantile (weighted ECDF inverse)', () => {
   it('first principles: values 1, 2, 3 with weights 1, 1, 2 have weight shares 0.25, 0.5, 1', () => {
     expect(weightedQuantiles([3, 1, 2], [2, 1, 1], [0.25, 0.5, 0.51])).toEqual([1, 2, 3]);
     expect(weightedQuantile([1], [0], 0.5)).toBeNaN();
+  });
+});
+
+/**
+ * Reference: the straightforward definition, kept here as stated: positions with a positive
+ * weight sorted by the comparator `values[a] - values[b]` (a stable sort), then for each p a
+ * scan from the start for the first cumulative share >= p - 4 eps.
+ */
+function referenceQuantiles(values: ArrayLike<number>, weights: ArrayLike<number>, ps: readonly number[]): number[] {
+  const idx: number[] = [];
+  let total = 0;
+  for (let i = 0; i < values.length; i++) {
+    if (weights[i]! > 0) {
+      idx.push(i);
+      total += weights[i]!;
+    }
+  }
+  if (!(total > 0)) return ps.map(() => Number.NaN);
+  idx.sort((a, b) => values[a]! - values[b]!);
+  return ps.map((p) => {
+    if (!(p >= 0 && p <= 1)) return Number.NaN;
+    let cum = 0;
+    for (const i of idx) {
+      cum += weights[i]!;
+      if (cum / total >= p - 4 * Number.EPSILON) return values[i]!;
+    }
+    return values[idx[idx.length - 1]!]!;
+  });
+}
+
+describe('weightedQuantiles against the comparator-sort reference', () => {
+  const ps = [0.9, 0, 0.5, 0.25, -0, 1, 0.75, 0.5, 1e-12, 1 - 1e-12, 1.5, -0.1, Number.NaN];
+  it('agrees bit for bit on seeded awkward values, weights with zeros and negatives, any size', () => {
+    for (const n of [1, 9, 300, RADIX_MIN + 1, 4 * RADIX_MIN]) {
+      const values = awkwardDoubles(n + 1, n);
+      const rnd = seeded(n);
+      const weights = values.map(() => (rnd() < 0.2 ? (rnd() < 0.5 ? 0 : -1) : rnd() < 0.5 ? 1 : rnd() * 3));
+      expect(signed(weightedQuantiles(values, weights, ps))).toEqual(signed(referenceQuantiles(values, weights, ps)));
+      expect(signed(weightedQuantiles(Float64Array.from(values), Float64Array.from(weights), ps))).toEqual(
+        signed(referenceQuantiles(values, weights, ps)),
+      );
+    }
+  });
+  it('picks the first of tied -0 and +0 in input order, as the stable comparator sort does', () => {
+    // n unit weights on 5s, except a +0 at position 7 and a -0 at position 8 (the second case
+    // swaps them). Ascending and stable: position 7, position 8, then the 5s, with cumulative
+    // shares 1/n, 2/n, 3/n, ...; so p = 1/n picks position 7, p = 2/n position 8, p = 0.5 a 5.
+    const n = RADIX_MIN + 2;
+    const values = new Float64Array(n).fill(5);
+    const weights = new Float64Array(n).fill(1);
+    const ps = [1 / n, 2 / n, 0.5];
+    values[7] = 0;
+    values[8] = -0;
+    expect(signed(weightedQuantiles(values, weights, ps))).toEqual(['0', '-0', '5']);
+    values[7] = -0;
+    values[8] = 0;
+    expect(signed(weightedQuantiles(values, weights, ps))).toEqual(['-0', '0', '5']);
+  });
+  it('answers unsorted ps in their own order, from one walk (worked example)', () => {
+    // Values 10, 20, 30, 40 with weights 1 each: shares 0.25, 0.5, 0.75, 1.
+    expect(weightedQuantiles([40, 10, 30, 20], [1, 1, 1, 1], [1, 0.3, 0.5, 0, 0.76])).toEqual([40, 20, 20, 10, 40]);
+  });
+  it('keeps the comparator order when a NaN value has a positive weight', () => {
+    const values = awkwardDoubles(4, 2 * RADIX_MIN).map((v, i) => (i % 97 === 0 ? Number.NaN : v));
+    const weights = values.map(() => 1);
+    expect(signed(weightedQuantiles(values, weights, ps))).toEqual(signed(referenceQuantiles(values, weights, ps)));
   });
 });

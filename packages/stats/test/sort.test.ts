@@ -1,0 +1,56 @@
+import { describe, it, expect } from 'vitest';
+import { RADIX_MIN, radixSort, sortedValid } from '../src/sort.ts';
+import { awkwardDoubles, signed } from './awkward.ts';
+
+describe('radixSort', () => {
+  it('sorts a hand-worked example and carries positions stably', () => {
+    // Keys 2, -1, 2, -0, 0 at positions 0..4. Numeric order with -0 before +0: -1 (pos 1),
+    // -0 (pos 3), 0 (pos 4), then the two 2s in position order (pos 0, then pos 2).
+    const { sorted, order } = radixSort(Float64Array.of(2, -1, 2, -0, 0), Uint32Array.of(0, 1, 2, 3, 4));
+    expect(signed(sorted)).toEqual(['-1', '-0', '0', '2', '2']);
+    expect(Array.from(order!)).toEqual([1, 3, 4, 0, 2]);
+  });
+
+  it('gives the order of Float64Array.prototype.sort on seeded awkward doubles', () => {
+    for (const n of [0, 1, 2, 17, 1000, 3 * RADIX_MIN]) {
+      const values = awkwardDoubles(n + 5, n);
+      const reference = Float64Array.from(values).sort();
+      expect(signed(radixSort(Float64Array.from(values)).sorted)).toEqual(signed(reference));
+    }
+  });
+
+  it('permutes positions as a stable comparator sort of positions does', () => {
+    const values = awkwardDoubles(8, 2 * RADIX_MIN).map((v) => v + 0);
+    // Reference: Array.prototype.sort is stable (ECMAScript 2019), so ties keep position order.
+    const reference = values.map((_, i) => i).sort((a, b) => values[a]! - values[b]!);
+    const positions = Uint32Array.from(values, (_, i) => i);
+    const { sorted, order } = radixSort(Float64Array.from(values), positions);
+    expect(Array.from(order!)).toEqual(reference);
+    expect(signed(sorted)).toEqual(signed(reference.map((i) => values[i]!)));
+  });
+
+  it('skips digits every key shares and still sorts (small whole numbers share their low words)', () => {
+    // First principles: 0..99 reversed, as doubles, differ only in the high 32 bits.
+    const values = Float64Array.from({ length: 100 }, (_, i) => 99 - i);
+    expect(Array.from(radixSort(values).sorted)).toEqual(Array.from({ length: 100 }, (_, i) => i));
+  });
+});
+
+describe('sortedValid', () => {
+  it('drops NaN and sorts with -0 before +0 (worked example)', () => {
+    // Without the NaN: 3, -0, 1, 0; ascending with -0 ahead of +0: -0, 0, 1, 3.
+    expect(signed(sortedValid([3, NaN, -0, 1, 0]))).toEqual(['-0', '0', '1', '3']);
+    expect(sortedValid([NaN]).length).toBe(0);
+  });
+
+  it('equals the typed-array sort of the non-NaN values, below and above the radix threshold', () => {
+    for (const n of [50, RADIX_MIN - 1, RADIX_MIN, 5 * RADIX_MIN]) {
+      const values = awkwardDoubles(n, n).map((v, i) => (i % 7 === 3 ? Number.NaN : v));
+      const reference = Float64Array.from(values.filter((v) => !Number.isNaN(v))).sort();
+      const input = Float64Array.from(values);
+      expect(signed(sortedValid(input))).toEqual(signed(reference));
+      // The input is left as it was.
+      expect(signed(input)).toEqual(signed(values));
+    }
+  });
+});
