@@ -55,6 +55,11 @@ function concatTyped<T extends Float64Array | Uint16Array | Uint32Array>(parts: 
   return out;
 }
 
+function remapInPlace(keys: Uint32Array, remap: Uint32Array): Uint32Array {
+  for (let r = 0; r < keys.length; r++) keys[r] = remap[keys[r]!]!;
+  return keys;
+}
+
 function sumInto(target: Float64Array, src: Float64Array): void {
   for (let i = 0; i < src.length; i++) target[i]! += src[i]!;
 }
@@ -65,11 +70,15 @@ function sumInto(target: Float64Array, src: Float64Array): void {
  * rows before part k (default: the running sum of the parts' rows). Counts add up; retained
  * columns, group keys and ids are concatenated; duplicate values of unique items across parts
  * are resolved in row order (the first occurrence overall is the original); findings are
- * shifted to global rows, sorted and capped per rule.
+ * shifted to global rows, sorted and capped per rule. With `release`, the parts' per-row arrays
+ * (columns, row keys, ids, unique tables) are dropped from the parts as soon as they are copied,
+ * so the merge needs memory for the result plus one column, not a second copy of every column;
+ * the parts are then spent and must not be merged again.
  * Cost: O(rows x retained items + distinct unique values). Throws CodeweirError CW_USAGE when
  * `parts` is empty or the parts were made with different headers.
  */
-export function mergePartials(parts: PartialResult[], rowOffsets?: readonly number[]): PartialResult {
+export function mergePartials(parts: PartialResult[], rowOffsets?: readonly number[], how: { release?: boolean } = {}): PartialResult {
+  const release = how.release === true;
   if (parts.length === 0) throw new CodeweirError('CW_USAGE', 'mergePartials needs at least one partial result.');
   const first = parts[0]!;
   const offs: number[] = [];
@@ -101,7 +110,7 @@ export function mergePartials(parts: PartialResult[], rowOffsets?: readonly numb
   const unique: Array<UniqueEntries | null> = first.unique.map((u0, i) => {
     if (u0 === null) return null;
     const keepIds = u0.ids !== undefined;
-    const table = u0.kind === 'number' ? new NumberFirsts(keepIds) : new TextFirsts(keepIds);
+    const table = u0.kind === 'number' ? new NumberFirsts(keepIds, parts.reduce((s, p) => s + p.unique[i]!.rows.length, 0)) : new TextFirsts(keepIds);
     const name = codebook.items[i]!.name;
     parts.forEach((p, k) => {
       const e = p.unique[i]!;
@@ -117,6 +126,7 @@ export function mergePartials(parts: PartialResult[], rowOffsets?: readonly numb
         const value = typeof key === 'number' ? String(key + 0) : key;
         findings.push({ row, id: e.ids ? id : value, item: name, value, rule: 'duplicate-id', severity: 'error', message: rules['duplicate-id'].message({ item: name, value }) });
       }
+      if (release) p.unique[i] = null;
     });
     return table.entries();
   });
@@ -141,18 +151,27 @@ export function mergePartials(parts: PartialResult[], rowOffsets?: readonly numb
         remap[j] = at;
         sumInto(tallies[at]!, gp.tallies[j]!);
       });
-      rowKeyParts.push(gp.rowKeys.map((x) => remap[x]!));
+      // Remapped in place when the part is spent: no third copy of the row keys.
+      rowKeyParts.push(release ? remapInPlace(gp.rowKeys, remap) : gp.rowKeys.map((x) => remap[x]!));
+      if (release) gp.rowKeys = new Uint32Array(0);
     }
     return { item: g0.item, keys, tallies, rowKeys: rowKeyParts.length ? concatTyped(rowKeyParts) : new Uint32Array(0) };
   });
 
-  const columns = first.columns.map((c, i) => (c === null ? null : concatTyped(parts.map((p) => p.columns[i]!))));
+  const columns = first.columns.map((c, i) => {
+    if (c === null) return null;
+    const merged = concatTyped(parts.map((p) => p.columns[i]!));
+    if (release) for (const p of parts) p.columns[i] = null;
+    return merged;
+  });
   let ids: IdColumn | null = null;
   if (first.ids) {
     const odd = new Map<number, string>();
     parts.forEach((p, k) => p.ids!.odd.forEach((v, row) => odd.set(row + offs[k]!, v)));
+    const numbers = first.ids.numbers ? concatTyped(parts.map((p) => p.ids!.numbers!)) : undefined;
+    if (release) for (const p of parts) delete p.ids!.numbers;
     ids = {
-      numbers: first.ids.numbers ? concatTyped(parts.map((p) => p.ids!.numbers!)) : undefined,
+      numbers,
       texts: first.ids.texts ? parts.flatMap((p) => p.ids!.texts!) : undefined,
       odd,
     };

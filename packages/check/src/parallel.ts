@@ -209,7 +209,7 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
     if (isCodeweirError(failure)) return single();
     throw failure;
   }
-  const merged = mergePartials(partials as PartialResult[]);
+  const merged = mergePartials(partials as PartialResult[], undefined, { release: true });
   merged.file = delivery.file;
   return finalize(merged);
 }

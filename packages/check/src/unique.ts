@@ -1,7 +1,7 @@
 /**
  * First occurrences of the values of a unique item, with their 1-based row, in row order.
  * Numeric values live in an open-addressing hash over a Float64Array (12 bytes per distinct
- * value plus the table), text values in a Map; both keep entries in insertion order so parts
+ * value plus the slot table, at most two thirds full), text values in a Map; both keep entries in insertion order so parts
  * of a split pass can be merged in row order.
  */
 import { Grow } from './grow.ts';
@@ -20,15 +20,25 @@ function hashNumber(v: number): number {
 }
 
 export class NumberFirsts {
-  readonly keys = new Grow(Float64Array);
-  readonly rows = new Grow(Uint32Array);
+  readonly keys: Grow<Float64Array>;
+  readonly rows: Grow<Uint32Array>;
   /** Id text of each entry, kept only when the unique item is not the id item. */
   readonly ids: string[] | undefined;
-  private slots = new Int32Array(1024);
-  private mask = 1023;
+  private slots: Int32Array;
+  private mask: number;
 
-  constructor(keepIds: boolean) {
+  /**
+   * `expected`: about how many distinct values will come (e.g. the entries of the parts being
+   * merged); the arrays are sized for them at once, so they are never copied while growing.
+   */
+  constructor(keepIds: boolean, expected = 0) {
     this.ids = keepIds ? [] : undefined;
+    this.keys = new Grow(Float64Array, Math.max(1024, expected));
+    this.rows = new Grow(Uint32Array, Math.max(1024, expected));
+    let size = 1024;
+    while (size * 2 < expected * 3 + 3) size *= 2;
+    this.slots = new Int32Array(size);
+    this.mask = size - 1;
   }
 
   /** Adds `v` first seen at `row`; false when it was there already. */
@@ -49,7 +59,7 @@ export class NumberFirsts {
     this.rows.length = n + 1;
     this.ids?.push(id);
     this.slots[h] = n + 1;
-    if ((n + 1) * 2 > this.mask) this.rehash();
+    if ((n + 1) * 3 > (this.mask + 1) * 2) this.rehash();
     return true;
   }
 

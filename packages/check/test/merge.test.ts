@@ -57,7 +57,7 @@ function single(batches: RowBatch[], options = {}) {
   return finalize(p.finish());
 }
 
-function split(rows: string[][], cuts: number[], options = {}) {
+function split(rows: string[][], cuts: number[], options = {}, release = false) {
   const bounds = [0, ...cuts, rows.length];
   const parts = [];
   for (let k = 0; k + 1 < bounds.length; k++) {
@@ -68,7 +68,16 @@ function split(rows: string[][], cuts: number[], options = {}) {
     // Round-trip through the cloneable form, as postMessage would.
     parts.push(attachPartial(structuredClone(detachPartial(p.finish())), cb));
   }
-  return finalize(mergePartials(parts, bounds.slice(0, -1)));
+  const merged = mergePartials(parts, bounds.slice(0, -1), { release });
+  if (release) {
+    // A spent part holds no per-row arrays any more: that is what keeps the merge's memory down.
+    for (const p of parts) {
+      expect(p.columns.every((c) => c === null)).toBe(true);
+      expect(p.unique.every((u) => u === null)).toBe(true);
+      expect(p.groups.every((g) => g.rowKeys.length === 0)).toBe(true);
+    }
+  }
+  return finalize(merged);
 }
 
 function comparable(r: ReturnType<typeof single>) {
@@ -90,6 +99,12 @@ describe('mergePartials', () => {
       expect(comparable(many)).toEqual(comparable(one));
     });
   }
+
+  it('releasing the parts while merging gives the same result', () => {
+    const one = single(batchesOf(rows, 100, false));
+    expect(comparable(split(rows, [200, 201, 650], {}, true))).toEqual(comparable(one));
+    expect(comparable(split(rows, [450], {}, true))).toEqual(comparable(one));
+  });
 
   it('still equal when findings are capped per rule', () => {
     const opts = { maxFindingsPerRule: 5 };
