@@ -5,8 +5,8 @@ import { escapeHtml as esc } from './escape.ts';
 import { formatDate, formatNumber as num, formatPercent as pct } from './format.ts';
 import { type Ctx, table, figure, itemText } from './context.ts';
 import { barChart, boxPlot, histogram, type Bar } from './charts.ts';
-import { histogramSorted } from '@codeweir/stats';
-import { boxFromValues, sortedValues } from './data.ts';
+import { histogramSorted, sortedValid, type Histogram } from '@codeweir/stats';
+import { boxFromValues, columnValues } from './data.ts';
 
 /** Display keys for categories: the label, with the code added where labels repeat (vega groups by key). */
 export function categoryKeys(positions: ReadonlyArray<Pick<OrdinalPosition, 'code' | 'label'>>): string[] {
@@ -71,9 +71,9 @@ function continuousCharts(ctx: Ctx, name: string, d: ItemDescription): string {
   const dates = ctx.item(name)?.type === 'date';
   const at = dates ? formatDate : num;
   const axis = d.unit ? `${name} (${d.unit})` : name;
-  const sorted = sortedValues(ctx.input.check.store, name);
+  const values = columnValues(ctx.input.check.store, name);
   const out: string[] = [];
-  const hist = d.histogram ?? (sorted && sorted.length > 0 ? histogramSorted(sorted) : undefined);
+  const hist = d.histogram ?? histogramOf(values);
   if (hist && hist.counts.length > 0) {
     const width = hist.edges.length > 1 ? hist.edges[1]! - hist.edges[0]! : 0;
     const title = `${what}: distribution`;
@@ -87,7 +87,7 @@ function continuousCharts(ctx: Ctx, name: string, d: ItemDescription): string {
   }
   if (d.q1 !== undefined && d.median !== undefined && d.q3 !== undefined) {
     const stats = { q1: d.q1, median: d.median, q3: d.q3, min: d.min, max: d.max, fences: d.fences, outliers: d.outliers };
-    const { box, points, exact } = boxFromValues(name, stats, sorted);
+    const { box, points, exact } = boxFromValues(name, stats, values);
     const title = `${what}: box plot`;
     const nOut = points.filter((p) => p.kind === 'outlier').length;
     const nExt = points.length - nOut;
@@ -102,6 +102,12 @@ function continuousCharts(ctx: Ctx, name: string, d: ItemDescription): string {
     out.push(figure(ctx, boxPlot(title, description, [{ ...box, key: name }], points, axis, dates), caption, alt));
   }
   return out.join('');
+}
+
+/** A histogram of the valid values when describe gave none (the values retained, some valid). */
+function histogramOf(values: Float64Array | undefined): Histogram | undefined {
+  const sorted = values && sortedValid(values);
+  return sorted && sorted.length > 0 ? histogramSorted(sorted) : undefined;
 }
 
 const positionText = (p: OrdinalPosition | undefined) => (p ? `${esc(p.label)} <span class="note">[${esc(p.code)}]</span>` : undefined);
