@@ -15,7 +15,7 @@ export async function collect(d: Delivery): Promise<{ rows: string[][]; lines: n
   const firstRows: number[] = [];
   for await (const b of d.batches()) {
     firstRows.push(b.firstRow);
-    if (b.offsets.length !== b.count + 1 || b.lines.length !== b.count) throw new Error('batch shape');
+    if (b.offsets.length !== b.count + 1 || b.lines.length !== b.count || b.fields.length !== b.offsets[b.count]) throw new Error('batch shape');
     for (let r = 0; r < b.count; r++) {
       rows.push(b.fields.slice(b.offsets[r], b.offsets[r + 1]));
       lines.push(b.lines[r] as number);
