@@ -372,13 +372,20 @@ function scatterSample(n: number, flagged: number[], d2: Float64Array | undefine
 function describeMixed(c: Coded, v: Numeric, quantileType: QuantileType, include: Uint8Array | undefined): PairMixed {
   const k = c.item.codes.length;
   const codes = c.codes;
-  const values = v.values;
-  const rows = codes.length;
-  // Counting sort into one buffer: group g occupies [start[g], start[g + 1]).
+  // Counting sort into one buffer: group g occupies [start[g], start[g + 1]). The sorted order
+  // holds the rows with a valid value only, so one walk along it finds each one's group (0 for
+  // none) and counts the groups; a second, sequential walk places the values.
+  const { order, sorted } = v.sorted();
+  const m = order.length;
+  const groupAt = new Uint16Array(m);
   const counts = new Uint32Array(k + 1);
-  for (let r = 0; r < rows; r++) {
+  for (let i = 0; i < m; i++) {
+    const r = order[i];
     const g = codes[r];
-    if (g !== 0 && g <= k && !Number.isNaN(values[r]) && (include === undefined || include[r] === 1)) counts[g]++;
+    if (g !== 0 && g <= k && (include === undefined || include[r] === 1)) {
+      groupAt[i] = g;
+      counts[g]++;
+    }
   }
   const start = new Uint32Array(k + 1);
   for (let g = 1; g <= k; g++) start[g] = g === 1 ? 0 : start[g - 1] + counts[g - 1];
@@ -386,11 +393,9 @@ function describeMixed(c: Coded, v: Numeric, quantileType: QuantileType, include
   const buffer = new Float64Array(n);
   const fill = start.slice();
   // Walking the continuous column in ascending order fills every group already sorted.
-  const { order, sorted } = v.sorted();
-  for (let i = 0; i < order.length; i++) {
-    const r = order[i];
-    const g = codes[r];
-    if (g !== 0 && g <= k && (include === undefined || include[r] === 1)) buffer[fill[g]++] = sorted[i];
+  for (let i = 0; i < m; i++) {
+    const g = groupAt[i];
+    if (g !== 0) buffer[fill[g]++] = sorted[i];
   }
   const segments: Float64Array[] = [];
   const groups: GroupSummary[] = c.item.codes.map((code, i) => {

@@ -36,7 +36,8 @@ export function crossTabulate(
   if (y.length !== len || (include !== undefined && include.length !== len)) {
     throw new CodeweirError('CW_USAGE', `Coded columns must have the same length, got ${len} and ${y.length}.`);
   }
-  const counts = new Float64Array(rows * columns);
+  // Whole-number counters: an integer increment is cheaper than a floating-point one.
+  const counts = new Uint32Array(rows * columns);
   let outOfRange = 0;
   for (let r = 0; r < len; r++) {
     const a = x[r];
