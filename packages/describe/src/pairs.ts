@@ -429,11 +429,15 @@ function groupSummary(code: number | string, label: string, seg: Float64Array, q
   const fences = tukeyFences(q1, q3);
   let outliers = 0;
   let extremes = 0;
-  for (let i = 0; i < seg.length; i++) {
-    const value = seg[i];
+  // In a sorted segment the values below the lower fence are a prefix and those above the
+  // upper one a suffix, so only the two tails are walked.
+  const beyond = (value: number) => {
     if (value < fences.lowerExtreme || value > fences.upperExtreme) extremes++;
-    else if (value < fences.lower || value > fences.upper) outliers++;
-  }
+    else outliers++;
+  };
+  let lo = 0;
+  while (lo < seg.length && seg[lo] < fences.lower) beyond(seg[lo++]);
+  for (let hi = seg.length - 1; hi >= lo && seg[hi] > fences.upper; hi--) beyond(seg[hi]);
   const sd = m.sd(1);
   return { code, label, n: seg.length, mean: m.mean, sd: Number.isNaN(sd) ? null : sd, median, q1, q3, fences, outliers, extremes };
 }

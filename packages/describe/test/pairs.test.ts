@@ -326,6 +326,33 @@ describe('describePairs: categorical x continuous', () => {
     // First principles: the last row has no valid group, so 11 rows pair.
     expect(pair.n).toBe(11);
   });
+
+  it('counts outliers and extremes on both sides of every group as the definition does', () => {
+    const cb = compile([
+      { name: 'g', level: 'nominal', codes: 3 },
+      { name: 'v', level: 'ratio' },
+    ]);
+    // Heavy tails on both sides (tan of an evenly spread fraction: the golden-ratio sequence),
+    // rounded so that values tie, every 37th cell NaN, codes 0 (no group) to 3 in turn.
+    const codes: number[] = [];
+    const values: number[] = [];
+    for (let r = 0; r < 3000; r++) {
+      codes.push(r % 4);
+      const u = (r * 0.6180339887) % 1;
+      values.push(r % 37 === 5 ? Number.NaN : Math.round(Math.tan(Math.PI * (u - 0.5)) * 4));
+    }
+    const [pair] = describePairs(store({ g: { codes }, v: { values } }), cb, { quantileType: 7, pairs: [['g', 'v']] }) as PairMixed[];
+    pair.groups.forEach((g, i) => {
+      const mine = values.filter((v, r) => codes[r] === i + 1 && !Number.isNaN(v));
+      // Definition: extremes beyond the outer fences; outliers beyond the inner fences only.
+      const f = g.fences!;
+      const extremes = mine.filter((v) => v < f.lowerExtreme || v > f.upperExtreme).length;
+      const outliers = mine.filter((v) => (v < f.lower || v > f.upper) && !(v < f.lowerExtreme || v > f.upperExtreme)).length;
+      expect(g.n).toBe(mine.length);
+      expect([g.outliers, g.extremes]).toEqual([outliers, extremes]);
+      expect(mine.some((v) => v < f.lowerExtreme) && mine.some((v) => v > f.upperExtreme) && outliers > 0).toBe(true);
+    });
+  });
 });
 
 // ---- selection, completeness and errors ---------------------------------------------------
