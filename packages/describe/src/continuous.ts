@@ -30,7 +30,7 @@ const round = (x: number) => Number(x.toPrecision(4));
  * quartiles, IQR, percentiles, modes, G1, G2, Tukey fences with outlier counts and values, the
  * outlier note, a histogram, and for ratio items cv and geometric mean; with weights the
  * weighted mean, sd and quartiles. Returns the convention keys used.
- * Cost: O(rows) with one sort of the valid values (`sortedValid`: a radix sort from 4096 values on).
+ * Cost: O(rows) with one sort of the valid values (`sortedValid`: a radix sort from 16,384 values on).
  */
 export function describeContinuous(
   d: ItemDescription,

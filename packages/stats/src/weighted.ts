@@ -1,4 +1,4 @@
-import { RADIX_MIN, radixSort } from './sort.ts';
+import { RADIX_ORDER_MIN, radixSort } from './sort.ts';
 
 /**
  * Weighted mean sum(w x) / sum(w).
@@ -61,7 +61,7 @@ export function weightedMoments(
  *
  * Convention: weighted ECDF inverse (type 1 analogue); zero and negative weights are ignored;
  * the share comparison allows 4 machine epsilons so that p = 0.5 on a table of exact halves is
- * not lost to rounding. Cost: O(n) by a radix sort from {@link RADIX_MIN} positive weights on,
+ * not lost to rounding. Cost: O(n) by a radix sort from {@link RADIX_ORDER_MIN} positive weights on,
  * O(n log n) by a comparison sort below (see {@link weightedQuantiles}). Throws nothing; NaN when
  * no weight is positive, p is outside [0, 1] or the lengths differ.
  * @example weightedQuantile([1, 2, 3], [1, 1, 2], 0.5) // 2
@@ -80,7 +80,7 @@ export function weightedQuantile(values: ArrayLike<number>, weights: ArrayLike<n
  * the start once per p. A NaN value among the positive weights (which that comparator does not
  * order consistently) takes the comparator sort itself.
  * Cost: O(n + k log k) for k probabilities with a radix sort (see `radixSort`) from
- * {@link RADIX_MIN} positive weights on, O(n log n + k log k) with a comparison sort below.
+ * {@link RADIX_ORDER_MIN} positive weights on, O(n log n + k log k) with a comparison sort below.
  * Throws nothing.
  */
 export function weightedQuantiles(
@@ -100,7 +100,7 @@ export function weightedQuantiles(
     }
   }
   if (!(total > 0)) return ps.map(() => Number.NaN);
-  const order = comparable && m >= RADIX_MIN ? radixOrder(values, weights, m) : comparatorOrder(values, weights);
+  const order = comparable && m >= RADIX_ORDER_MIN ? radixOrder(values, weights, m) : comparatorOrder(values, weights);
   return walkShares(values, weights, order, total, ps);
 }
 

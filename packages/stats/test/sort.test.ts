@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { RADIX_MIN, radixSort, sortedValid } from '../src/sort.ts';
+import { RADIX_SORT_MIN, radixSort, sortedValid } from '../src/sort.ts';
 import { awkwardDoubles, signed } from './awkward.ts';
 
 describe('radixSort', () => {
@@ -12,7 +12,7 @@ describe('radixSort', () => {
   });
 
   it('gives the order of Float64Array.prototype.sort on seeded awkward doubles', () => {
-    for (const n of [0, 1, 2, 17, 1000, 3 * RADIX_MIN]) {
+    for (const n of [0, 1, 2, 17, 1000, 2 * RADIX_SORT_MIN]) {
       const values = awkwardDoubles(n + 5, n);
       const reference = Float64Array.from(values).sort();
       expect(signed(radixSort(Float64Array.from(values)).sorted)).toEqual(signed(reference));
@@ -20,7 +20,7 @@ describe('radixSort', () => {
   });
 
   it('permutes positions as a stable comparator sort of positions does', () => {
-    const values = awkwardDoubles(8, 2 * RADIX_MIN).map((v) => v + 0);
+    const values = awkwardDoubles(8, 20000).map((v) => v + 0);
     // Reference: Array.prototype.sort is stable (ECMAScript 2019), so ties keep position order.
     const reference = values.map((_, i) => i).sort((a, b) => values[a]! - values[b]!);
     const positions = Uint32Array.from(values, (_, i) => i);
@@ -44,9 +44,11 @@ describe('sortedValid', () => {
   });
 
   it('equals the typed-array sort of the non-NaN values, below and above the radix threshold', () => {
-    for (const n of [50, RADIX_MIN - 1, RADIX_MIN, 5 * RADIX_MIN]) {
-      const values = awkwardDoubles(n, n).map((v, i) => (i % 7 === 3 ? Number.NaN : v));
-      const reference = Float64Array.from(values.filter((v) => !Number.isNaN(v))).sort();
+    for (const n of [50, RADIX_SORT_MIN - 1, RADIX_SORT_MIN, 3 * RADIX_SORT_MIN]) {
+      // n valid values (so the threshold is straddled exactly) with a NaN after every sixth.
+      const valid = awkwardDoubles(n, n);
+      const values = valid.flatMap((v, i) => (i % 6 === 5 ? [v, Number.NaN] : [v]));
+      const reference = Float64Array.from(valid).sort();
       const input = Float64Array.from(values);
       expect(signed(sortedValid(input))).toEqual(signed(reference));
       // The input is left as it was.

@@ -1,7 +1,7 @@
 import { describe, it, expect } from 'vitest';
 import { weightedMean, weightedSd, weightedQuantile, weightedQuantiles } from '../src/weighted.ts';
 import { quantile } from '../src/quantile.ts';
-import { RADIX_MIN } from '../src/sort.ts';
+import { RADIX_ORDER_MIN } from '../src/sort.ts';
 import { R, jStat, seeded } from './oracle.ts';
 import { awkwardDoubles, signed } from './awkward.ts';
 
@@ -84,7 +84,7 @@ function referenceQuantiles(values: ArrayLike<number>, weights: ArrayLike<number
 describe('weightedQuantiles against the comparator-sort reference', () => {
   const ps = [0.9, 0, 0.5, 0.25, -0, 1, 0.75, 0.5, 1e-12, 1 - 1e-12, 1.5, -0.1, Number.NaN];
   it('agrees bit for bit on seeded awkward values, weights with zeros and negatives, any size', () => {
-    for (const n of [1, 9, 300, RADIX_MIN + 1, 4 * RADIX_MIN]) {
+    for (const n of [1, 9, 300, RADIX_ORDER_MIN + 1, 4 * RADIX_ORDER_MIN]) {
       const values = awkwardDoubles(n + 1, n);
       const rnd = seeded(n);
       const weights = values.map(() => (rnd() < 0.2 ? (rnd() < 0.5 ? 0 : -1) : rnd() < 0.5 ? 1 : rnd() * 3));
@@ -98,7 +98,7 @@ describe('weightedQuantiles against the comparator-sort reference', () => {
     // n unit weights on 5s, except a +0 at position 7 and a -0 at position 8 (the second case
     // swaps them). Ascending and stable: position 7, position 8, then the 5s, with cumulative
     // shares 1/n, 2/n, 3/n, ...; so p = 1/n picks position 7, p = 2/n position 8, p = 0.5 a 5.
-    const n = RADIX_MIN + 2;
+    const n = RADIX_ORDER_MIN + 2;
     const values = new Float64Array(n).fill(5);
     const weights = new Float64Array(n).fill(1);
     const ps = [1 / n, 2 / n, 0.5];
@@ -114,7 +114,7 @@ describe('weightedQuantiles against the comparator-sort reference', () => {
     expect(weightedQuantiles([40, 10, 30, 20], [1, 1, 1, 1], [1, 0.3, 0.5, 0, 0.76])).toEqual([40, 20, 20, 10, 40]);
   });
   it('keeps the comparator order when a NaN value has a positive weight', () => {
-    const values = awkwardDoubles(4, 2 * RADIX_MIN).map((v, i) => (i % 97 === 0 ? Number.NaN : v));
+    const values = awkwardDoubles(4, 2 * RADIX_ORDER_MIN).map((v, i) => (i % 97 === 0 ? Number.NaN : v));
     const weights = values.map(() => 1);
     expect(signed(weightedQuantiles(values, weights, ps))).toEqual(signed(referenceQuantiles(values, weights, ps)));
   });
