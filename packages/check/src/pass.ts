@@ -206,7 +206,6 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
   const codeIdx = new Int32Array(nItems);
   const num = new Float64Array(nItems);
   const text: string[] = new Array(nItems).fill('');
-  const cellOf: string[] = new Array(nItems).fill('');
   const val: unknown[] = new Array(nItems).fill(null);
   const skipInvalid: number[] = [];
 
@@ -273,11 +272,11 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
 
   let rows = 0;
 
-  /** Canonical id text of the current row: a valid numeric id as its number, else the trimmed cell. */
-  const rowId = (): string => {
+  /** Canonical id text of row r of the batch: a valid numeric id as its number, else the trimmed cell. */
+  const rowId = (r: number): string => {
     if (idIndex < 0) return '';
     if (state[idIndex] === ST_VALID) return idNumeric ? String(num[idIndex]) : text[idIndex]!;
-    return cellOf[idIndex]!.trim();
+    return rawCell(idIndex, r).trim();
   };
 
   const count = (rule: number, item: number, sev: number): boolean => {
@@ -426,11 +425,10 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     return pos >= 0 && pos < offsets[r + 1]! - start ? fields[start + pos]! : '';
   };
 
-  /** Loads the per-row scratch (state, kind, number, code, text, CEL value) of item i for row r. */
+  /** Loads the per-row scratch (state, kind, number, code, text, CEL value) of item i for row r; the raw cell stays in the batch (rawCell). */
   const loadRowState = (i: number, r: number): void => {
     const k = presentAt[i]!;
     const s = cellState[k]![r]!;
-    cellOf[i] = rawCell(i, r);
     if (s <= VALID_WARN) {
       state[i] = ST_VALID;
       num[i] = cellNum[k]![r]!;
@@ -534,7 +532,7 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
         if (state[i] !== ST_VALID) continue;
         const table = uniques[i]!;
         const isNum = table instanceof NumberFirsts;
-        const fresh = isNum ? table.add(num[i]!, row, i === idIndex ? '' : rowId()) : table.add(text[i]!, row, i === idIndex ? '' : rowId());
+        const fresh = isNum ? table.add(num[i]!, row, i === idIndex ? '' : rowId(r)) : table.add(text[i]!, row, i === idIndex ? '' : rowId(r));
         if (!fresh && count(R['duplicate-id'], i, 0)) {
           const v = isNum ? String(num[i]! + 0) : text[i]!;
           pending.push({ row, id: '', item: varNames[i]!, value: v, rule: 'duplicate-id', severity: 'error', message: rules['duplicate-id'].message({ item: varNames[i]!, value: v }) });
@@ -559,13 +557,13 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
           routing[i * 3 + 1]++;
           if (state[i] === ST_MISSING && kind[i] !== 0 && kind[i] !== NOT_APPLICABLE) {
             if (count(R['missing-code-when-skipped'], i, 1)) {
-              const cell = cellOf[i]!;
+              const cell = rawCell(i, r);
               pending.push({ row, id: '', item: varNames[i]!, value: cutValue(cell), rule: 'missing-code-when-skipped', severity: 'warning', message: rules['missing-code-when-skipped'].message({ item: varNames[i]!, value: cell.trim(), condition: rt.expr.source, kind: KINDS[kind[i]!]! }) });
             }
           } else if (state[i] === ST_VALID) {
             skipInvalid.push(i);
             if (count(R['answered-when-skipped'], i, 0)) {
-              const cell = cellOf[i]!;
+              const cell = rawCell(i, r);
               pending.push({ row, id: '', item: varNames[i]!, value: cutValue(cell), rule: 'answered-when-skipped', severity: 'error', message: rules['answered-when-skipped'].message({ item: varNames[i]!, value: cell.trim(), condition: rt.expr.source }) });
             }
           }
@@ -606,15 +604,15 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
           if (state[idIndex] === ST_VALID) idNumData[r] = num[idIndex]!;
           else {
             idNumData[r] = Number.NaN;
-            idOdd.set(row, cellOf[idIndex]!.trim());
+            idOdd.set(row, rawCell(idIndex, r).trim());
           }
-        } else idTexts!.push(rowId());
+        } else idTexts!.push(rowId(r));
       }
 
       recordMissing[rowMissing[r]!]++;
 
       if (pending.length > 0) {
-        const id = rowId();
+        const id = rowId(r);
         for (const f of pending) {
           f.id = id;
           findings.push(f);
