@@ -1,7 +1,7 @@
 /**
  * Checking one delivery file on several cores. The file is cut at safe row boundaries into
- * byte ranges (`splitDelivery` of @codeweir/read), more ranges than threads, handed out as a
- * queue: the calling thread and the worker threads each take the next range, run the
+ * byte ranges (`splitDelivery` of @codeweir/read), more ranges than threads, shared out through
+ * one atomic counter: the calling thread and the worker threads each claim the next range, run the
  * single-thread pass over it (`createPass` -> `push` -> `finish`) and hand back its partial
  * result, whose typed arrays are transferred, not copied. The partials are merged in file
  * order (`mergePartials`) and finalized once, so the result is the one a single pass gives:
@@ -54,10 +54,12 @@ interface WorkerInit {
   codebookFile?: string;
   options: CheckOptions;
 }
-type ToWorker = { index: number; range: ByteRange } | { stop: true };
+/** Every range, and the shared counter from which each thread claims the next one to check. */
+type ToWorker = { ranges: ByteRange[]; next: Int32Array };
 type FromWorker =
   | { index: number; partial: DetachedPartial }
-  | { index: number; error: { code?: ErrorCode; message: string; codeweir: boolean } };
+  | { index: number; error: { code?: ErrorCode; message: string; codeweir: boolean } }
+  | { done: true };
 
 function readOptionsOf(o: CheckOptions): ReadOptions {
   return { delimiter: o.delimiter, encoding: o.encoding, maxFieldBytes: o.maxFieldBytes };
@@ -157,50 +159,45 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
   }
 
   const partials: Array<PartialResult | undefined> = new Array(ranges.length);
-  let next = 0;
+  // The queue is one shared counter: every thread claims the next range itself, with no message
+  // round trip, so none waits on another between ranges and the file's end is shared out evenly.
+  const next = new Int32Array(new SharedArrayBuffer(4));
   let failure: Error | undefined;
+  const fail = (e: Error): void => {
+    failure ??= e;
+    // No thread claims another range.
+    Atomics.store(next, 0, ranges.length);
+  };
 
   const serveWorker = (w: Worker): Promise<void> =>
     new Promise<void>((resolve) => {
-      let stopped = false;
-      const give = (): void => {
-        if (stopped) return;
-        if (failure || next >= ranges.length) {
-          stopped = true;
-          w.postMessage({ stop: true } satisfies ToWorker);
-          return;
-        }
-        const index = next++;
-        w.postMessage({ index, range: ranges[index]! } satisfies ToWorker);
-      };
+      let done = false;
       w.on('message', (m: FromWorker) => {
-        if ('error' in m) {
-          failure ??= rebuildError(m.error);
-          return give();
-        }
-        partials[m.index] = attachPartial(m.partial, codebook);
-        give();
+        if ('done' in m) {
+          done = true;
+          resolve();
+        } else if ('error' in m) fail(rebuildError(m.error));
+        else partials[m.index] = attachPartial(m.partial, codebook);
       });
       w.on('error', (e) => {
-        failure ??= e;
+        fail(e);
         resolve();
       });
-      w.on('exit', () => resolve());
-      // Two ranges queued at once: the worker never waits for this thread to answer a message
-      // (it answers only between its own reads, which can be most of a second apart).
-      give();
-      give();
+      w.on('exit', () => {
+        if (!done) fail(new Error('A check worker thread stopped before it finished its ranges.'));
+        resolve();
+      });
+      w.postMessage({ ranges, next } satisfies ToWorker);
     });
 
   const served = workers.map(serveWorker);
   // The calling thread works through the queue too.
   try {
-    while (caller && !failure && next < ranges.length) {
-      const index = next++;
+    for (let index = caller ? Atomics.add(next, 0, 1) : ranges.length; index < ranges.length && !failure; index = Atomics.add(next, 0, 1)) {
       partials[index] = await passOverRange(path, ranges[index]!, codebook, options);
     }
   } catch (e) {
-    failure ??= e as Error;
+    fail(e as Error);
   }
   await Promise.all(served);
   if (failure) {
@@ -216,35 +213,26 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
 
 async function serve(init: WorkerInit): Promise<void> {
   const port = parentPort!;
-  let codebook: CompiledCodebook;
+  const errorOf = (e: unknown): { code?: ErrorCode; message: string; codeweir: boolean } => ({ message: (e as Error).message, code: isCodeweirError(e) ? e.code : undefined, codeweir: isCodeweirError(e) });
+  let codebook: CompiledCodebook | undefined;
   try {
     codebook = compileCodebook(init.source as Codebook, init.codebookFile);
   } catch (e) {
-    port.postMessage({ index: -1, error: { message: (e as Error).message, code: isCodeweirError(e) ? e.code : undefined, codeweir: isCodeweirError(e) } } satisfies FromWorker);
-    return;
+    port.postMessage({ index: -1, error: errorOf(e) } satisfies FromWorker);
   }
-  // Ranges are served one at a time, in the order they came (several may be queued).
-  const queue: ToWorker[] = [];
-  let busy = false;
-  const drain = async (): Promise<void> => {
-    busy = true;
-    for (let m = queue.shift(); m !== undefined; m = queue.shift()) {
-      if ('stop' in m) {
-        port.close();
-        return;
-      }
+  port.once('message', async ({ ranges, next }: ToWorker) => {
+    // Claim ranges until the counter passes the last one (or a failure elsewhere pushed it there).
+    for (let index = codebook ? Atomics.add(next, 0, 1) : ranges.length; index < ranges.length; index = Atomics.add(next, 0, 1)) {
       try {
-        const partial = detachPartial(await passOverRange(init.path, m.range, codebook, init.options));
-        port.postMessage({ index: m.index, partial } satisfies FromWorker, transferables(partial));
+        const partial = detachPartial(await passOverRange(init.path, ranges[index]!, codebook!, init.options));
+        port.postMessage({ index, partial } satisfies FromWorker, transferables(partial));
       } catch (e) {
-        port.postMessage({ index: m.index, error: { message: (e as Error).message, code: isCodeweirError(e) ? e.code : undefined, codeweir: isCodeweirError(e) } } satisfies FromWorker);
+        Atomics.store(next, 0, ranges.length);
+        port.postMessage({ index, error: errorOf(e) } satisfies FromWorker);
       }
     }
-    busy = false;
-  };
-  port.on('message', (m: ToWorker) => {
-    queue.push(m);
-    if (!busy) void drain();
+    port.postMessage({ done: true } satisfies FromWorker);
+    port.close();
   });
 }
 
