@@ -485,6 +485,141 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     if (f64 !== null) f64[r] = Number.NaN;
   };
 
+  /** Unique values of row r (first occurrence wins; later ones are findings but stay valid). */
+  const uniqueRow = (r: number, row: number): void => {
+    for (let u = 0; u < uniqueList.length; u++) {
+      const i = uniqueList[u]!;
+      if (state[i] !== ST_VALID) continue;
+      const table = uniques[i]!;
+      const isNum = table instanceof NumberFirsts;
+      const fresh = isNum ? table.add(num[i]!, row, i === idIndex ? '' : rowId(r)) : table.add(text[i]!, row, i === idIndex ? '' : rowId(r));
+      if (!fresh && count(R['duplicate-id'], i, 0)) {
+        const v = isNum ? String(num[i]! + 0) : text[i]!;
+        pending.push({ row, id: '', item: varNames[i]!, value: v, rule: 'duplicate-id', severity: 'error', message: rules['duplicate-id'].message({ item: varNames[i]!, value: v }) });
+      }
+    }
+  };
+
+  /** A routing finding of item i in row r (the routing counts are made by the caller). */
+  const routingFinding = (rule: number, i: number, r: number, row: number, rt: Routed): void => {
+    const name = varNames[i]!;
+    const condition = rt.expr.source;
+    if (rule === R['blank-when-asked']) {
+      pending.push({ row, id: '', item: name, value: '', rule: 'blank-when-asked', severity: 'warning', message: rules['blank-when-asked'].message({ item: name, condition }) });
+      return;
+    }
+    const cell = rawCell(i, r);
+    if (rule === R['missing-code-when-skipped']) {
+      pending.push({ row, id: '', item: name, value: cutValue(cell), rule: 'missing-code-when-skipped', severity: 'warning', message: rules['missing-code-when-skipped'].message({ item: name, value: cell.trim(), condition, kind: KINDS[kind[i]!]! }) });
+    } else {
+      pending.push({ row, id: '', item: name, value: cutValue(cell), rule: 'answered-when-skipped', severity: 'error', message: rules['answered-when-skipped'].message({ item: name, value: cell.trim(), condition }) });
+    }
+  };
+
+  /** Routing of row r, on the cell-level classification. */
+  const routingRow = (r: number, row: number): void => {
+    for (let q = 0; q < routed.length; q++) {
+      const rt = routed[q]!;
+      const i = rt.item;
+      if (!bind(rt.vars)) {
+        routing[i * 3 + 2]++;
+        continue;
+      }
+      if (rt.expr.evaluate(vars)) {
+        routing[i * 3]++;
+        if (state[i] === ST_MISSING && kind[i] === 0 && count(R['blank-when-asked'], i, 1)) routingFinding(R['blank-when-asked'], i, r, row, rt);
+      } else {
+        routing[i * 3 + 1]++;
+        if (state[i] === ST_MISSING && kind[i] !== 0 && kind[i] !== NOT_APPLICABLE) {
+          if (count(R['missing-code-when-skipped'], i, 1)) routingFinding(R['missing-code-when-skipped'], i, r, row, rt);
+        } else if (state[i] === ST_VALID) {
+          skipInvalid.push(i);
+          if (count(R['answered-when-skipped'], i, 0)) routingFinding(R['answered-when-skipped'], i, r, row, rt);
+        }
+      }
+    }
+  };
+
+  /** Cross-item rules of row r. */
+  const rulesRow = (row: number): void => {
+    for (let q = 0; q < ruleSlots.length; q++) {
+      const rs = ruleSlots[q]!;
+      const base = rs.index * 4;
+      if (rs.when) {
+        if (!bind(rs.whenVars)) {
+          ruleCounts[base + 2]++;
+          continue;
+        }
+        if (!rs.when.evaluate(vars)) {
+          ruleCounts[base + 3]++;
+          continue;
+        }
+      }
+      if (!bind(rs.testVars)) {
+        ruleCounts[base + 2]++;
+        continue;
+      }
+      if (rs.test.evaluate(vars)) ruleCounts[base]++;
+      else {
+        ruleCounts[base + 1]++;
+        if (count(R['rule-failed'], -1, rs.severity)) {
+          pending.push({ row, id: '', item: rs.id, value: '', rule: 'rule-failed', severity: SEVERITIES[rs.severity]!, message: rules['rule-failed'].message({ rule: rs.id, message: rs.message }) });
+        }
+      }
+    }
+  };
+
+  /** The ragged-row finding of row r. */
+  const raggedFinding = (nf: number, row: number): void => {
+    pending.push({ row, id: '', item: '', value: `${nf} fields`, rule: 'ragged-row', severity: 'error', message: rules['ragged-row'].message({ fields: nf, expected: headerLen }) });
+  };
+
+  /** The row's findings get its id, in the order they were made. */
+  const keepPending = (r: number): void => {
+    const id = rowId(r);
+    for (const f of pending) {
+      f.id = id;
+      findings.push(f);
+    }
+  };
+
+  /**
+   * Then row by row, for what reads several cells of a row, and for the row's findings. Each
+   * part is a function of its own, not one body with push: each stays small enough for the
+   * optimizing compiler to finish soon, and a change that invalidates one does not recompile
+   * the others (recompiling one large body was most of the compiler's work on two threads).
+   */
+  const checkRows = (n: number, idNumData: Float64Array | null): void => {
+    for (let r = 0; r < n; r++) {
+      const nf = offsets[r + 1]! - offsets[r]!;
+      const row = rows + 1;
+      pending.length = 0;
+      if (nf !== headerLen && count(R['ragged-row'], -1, 0)) raggedFinding(nf, row);
+      if (rowFlag[r]) cellFindings(r, row);
+      for (let q = 0; q < rowNeeded.length; q++) loadRowState(rowNeeded[q]!, r);
+      if (uniqueList.length > 0) uniqueRow(r, row);
+      skipInvalid.length = 0;
+      if (routed.length > 0) routingRow(r, row);
+      if (ruleSlots.length > 0) rulesRow(row);
+      for (let q = 0; q < skipInvalid.length; q++) untallyValid(skipInvalid[q]!, r);
+
+      // Id column, for findings made after the pass.
+      if (idIndex >= 0) {
+        if (idNumData) {
+          if (state[idIndex] === ST_VALID) idNumData[r] = num[idIndex]!;
+          else {
+            idNumData[r] = Number.NaN;
+            idOdd.set(row, rawCell(idIndex, r).trim());
+          }
+        } else idTexts!.push(rowId(r));
+      }
+
+      recordMissing[rowMissing[r]!]++;
+      if (pending.length > 0) keepPending(r);
+      rows++;
+    }
+  };
+
   const push = (batch: RowBatch): void => {
     const n = batch.count;
     fields = batch.fields;
@@ -515,111 +650,7 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
       tallyColumn(k, n);
     }
 
-    // Then row by row, for what reads several cells of a row, and for the row's findings.
-    for (let r = 0; r < n; r++) {
-      const nf = offsets[r + 1]! - offsets[r]!;
-      const row = rows + 1;
-      pending.length = 0;
-      if (nf !== headerLen && count(R['ragged-row'], -1, 0)) {
-        pending.push({ row, id: '', item: '', value: `${nf} fields`, rule: 'ragged-row', severity: 'error', message: rules['ragged-row'].message({ fields: nf, expected: headerLen }) });
-      }
-      if (rowFlag[r]) cellFindings(r, row);
-      for (let q = 0; q < rowNeeded.length; q++) loadRowState(rowNeeded[q]!, r);
-
-      // Unique values (first occurrence wins; later ones are findings but stay valid).
-      for (let u = 0; u < uniqueList.length; u++) {
-        const i = uniqueList[u]!;
-        if (state[i] !== ST_VALID) continue;
-        const table = uniques[i]!;
-        const isNum = table instanceof NumberFirsts;
-        const fresh = isNum ? table.add(num[i]!, row, i === idIndex ? '' : rowId(r)) : table.add(text[i]!, row, i === idIndex ? '' : rowId(r));
-        if (!fresh && count(R['duplicate-id'], i, 0)) {
-          const v = isNum ? String(num[i]! + 0) : text[i]!;
-          pending.push({ row, id: '', item: varNames[i]!, value: v, rule: 'duplicate-id', severity: 'error', message: rules['duplicate-id'].message({ item: varNames[i]!, value: v }) });
-        }
-      }
-
-      // Routing, on the cell-level classification.
-      skipInvalid.length = 0;
-      for (let q = 0; q < routed.length; q++) {
-        const rt = routed[q]!;
-        const i = rt.item;
-        if (!bind(rt.vars)) {
-          routing[i * 3 + 2]++;
-          continue;
-        }
-        if (rt.expr.evaluate(vars)) {
-          routing[i * 3]++;
-          if (state[i] === ST_MISSING && kind[i] === 0 && count(R['blank-when-asked'], i, 1)) {
-            pending.push({ row, id: '', item: varNames[i]!, value: '', rule: 'blank-when-asked', severity: 'warning', message: rules['blank-when-asked'].message({ item: varNames[i]!, condition: rt.expr.source }) });
-          }
-        } else {
-          routing[i * 3 + 1]++;
-          if (state[i] === ST_MISSING && kind[i] !== 0 && kind[i] !== NOT_APPLICABLE) {
-            if (count(R['missing-code-when-skipped'], i, 1)) {
-              const cell = rawCell(i, r);
-              pending.push({ row, id: '', item: varNames[i]!, value: cutValue(cell), rule: 'missing-code-when-skipped', severity: 'warning', message: rules['missing-code-when-skipped'].message({ item: varNames[i]!, value: cell.trim(), condition: rt.expr.source, kind: KINDS[kind[i]!]! }) });
-            }
-          } else if (state[i] === ST_VALID) {
-            skipInvalid.push(i);
-            if (count(R['answered-when-skipped'], i, 0)) {
-              const cell = rawCell(i, r);
-              pending.push({ row, id: '', item: varNames[i]!, value: cutValue(cell), rule: 'answered-when-skipped', severity: 'error', message: rules['answered-when-skipped'].message({ item: varNames[i]!, value: cell.trim(), condition: rt.expr.source }) });
-            }
-          }
-        }
-      }
-
-      // Cross-item rules.
-      for (let q = 0; q < ruleSlots.length; q++) {
-        const rs = ruleSlots[q]!;
-        const base = rs.index * 4;
-        if (rs.when) {
-          if (!bind(rs.whenVars)) {
-            ruleCounts[base + 2]++;
-            continue;
-          }
-          if (!rs.when.evaluate(vars)) {
-            ruleCounts[base + 3]++;
-            continue;
-          }
-        }
-        if (!bind(rs.testVars)) {
-          ruleCounts[base + 2]++;
-          continue;
-        }
-        if (rs.test.evaluate(vars)) ruleCounts[base]++;
-        else {
-          ruleCounts[base + 1]++;
-          if (count(R['rule-failed'], -1, rs.severity)) {
-            pending.push({ row, id: '', item: rs.id, value: '', rule: 'rule-failed', severity: SEVERITIES[rs.severity]!, message: rules['rule-failed'].message({ rule: rs.id, message: rs.message }) });
-          }
-        }
-      }
-      for (const i of skipInvalid) untallyValid(i, r);
-
-      // Id column, for findings made after the pass.
-      if (idIndex >= 0) {
-        if (idNumData) {
-          if (state[idIndex] === ST_VALID) idNumData[r] = num[idIndex]!;
-          else {
-            idNumData[r] = Number.NaN;
-            idOdd.set(row, rawCell(idIndex, r).trim());
-          }
-        } else idTexts!.push(rowId(r));
-      }
-
-      recordMissing[rowMissing[r]!]++;
-
-      if (pending.length > 0) {
-        const id = rowId(r);
-        for (const f of pending) {
-          f.id = id;
-          findings.push(f);
-        }
-      }
-      rows++;
-    }
+    checkRows(n, idNumData);
     for (const c of columns) if (c) c.commit(n);
     if (idNumbers) idNumbers.commit(n);
     for (const gs of groupStates) gs.rowKeys.commit(n);
