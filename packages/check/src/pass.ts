@@ -98,6 +98,12 @@ export interface PartialResult {
 /** A pass in progress. */
 export interface Pass {
   push(batch: RowBatch): void;
+  /**
+   * The partial result of the rows pushed since the pass was made or last finished. The pass
+   * then starts afresh (rows numbered from 1 again) and takes the batches of another range of
+   * the same file: one pass per thread, whose functions the engine optimizes once, not again
+   * for every range.
+   */
   finish(): PartialResult;
 }
 
@@ -209,23 +215,21 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
   const val: unknown[] = new Array(nItems).fill(null);
   const skipInvalid: number[] = [];
 
-  // Accumulators.
-  const tallies = new Float64Array(nItems * SLOTS);
-  const findingCounts = new Float64Array(nItems * NR);
-  const ruleTotals = new Float64Array(NR);
-  const severityTotals = new Float64Array(SEVERITIES.length);
-  const kept = new Int32Array(NR);
-  const routing = new Float64Array(nItems * 3);
-  const ruleCounts = new Float64Array(ruleSlots.length * 4);
-  const trimmed = new Float64Array(nItems);
-  const unbinned = new Float64Array(nItems);
-  const recordMissing = new Float64Array(nItems + 1);
-  const findings: Finding[] = [];
+  // Accumulators of the rows pushed since the pass began or last finished (see begin()).
+  let tallies = new Float64Array(0);
+  let findingCounts = tallies;
+  let ruleTotals = tallies;
+  let severityTotals = tallies;
+  let kept = new Int32Array(NR);
+  let routing = tallies;
+  let ruleCounts = tallies;
+  let trimmed = tallies;
+  let unbinned = tallies;
+  let recordMissing = tallies;
+  let findings: Finding[] = [];
   const pending: Finding[] = [];
-
-  const columns: Array<Chunked<Float64Array> | Chunked<Uint16Array> | null> = cls.map((c) =>
-    c.retained && !absent[c.item.index] && (c.shape !== 'coded' || options.retainCoded) ? (c.shape === 'coded' ? new Chunked(Uint16Array, expectedRows) : new Chunked(Float64Array, expectedRows)) : null,
-  );
+  const retainedShape = cls.map((c) => (c.retained && !absent[c.item.index] && (c.shape !== 'coded' || options.retainCoded) ? c.shape : null));
+  let columns: Array<Chunked<Float64Array> | Chunked<Uint16Array> | null> = [];
   const coded = Uint8Array.from(cls, (c) => (c.shape === 'coded' ? 1 : 0));
   /** Items whose valid value is text (free text, or text codes): the trimmed text is kept per row. */
   const keepText = Uint8Array.from(cls, (c) => (c.shape === 'text' || (c.shape === 'coded' && c.item.type === 'text') ? 1 : 0));
@@ -233,27 +237,31 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
   const idItem = codebook.idItem && !absent[codebook.idItem.index] ? codebook.idItem : undefined;
   const idIndex = idItem ? idItem.index : -1;
   const idNumeric = idItem !== undefined && cls[idIndex]!.shape !== 'text' && !(cls[idIndex]!.shape === 'coded' && idItem.type === 'text');
-  const idNumbers = idItem && idNumeric ? new Chunked(Float64Array, expectedRows) : null;
-  const idTexts: string[] | null = idItem && !idNumeric ? [] : null;
-  const idOdd = new Map<number, string>();
+  let idNumbers: Chunked<Float64Array> | null = null;
+  let idTexts: string[] | null = null;
+  let idOdd = new Map<number, string>();
 
-  const uniques: Array<Firsts | null> = codebook.items.map((it) => {
-    if (!it.unique || absent[it.index]) return null;
-    const numeric = cls[it.index]!.shape === 'numeric' || (cls[it.index]!.shape === 'coded' && it.type !== 'text');
-    return numeric ? new NumberFirsts(it.index !== idIndex) : new TextFirsts(it.index !== idIndex);
-  });
-  const uniqueList = uniques.map((u, i) => (u ? i : -1)).filter((i) => i >= 0);
+  const uniqueList = codebook.items.filter((it) => it.unique && !absent[it.index]).map((it) => it.index);
+  const newUniques = (): Array<Firsts | null> =>
+    codebook.items.map((it) => {
+      if (!it.unique || absent[it.index]) return null;
+      const numeric = cls[it.index]!.shape === 'numeric' || (cls[it.index]!.shape === 'coded' && it.type !== 'text');
+      return numeric ? new NumberFirsts(it.index !== idIndex) : new TextFirsts(it.index !== idIndex);
+    });
+  let uniques: Array<Firsts | null> = [];
 
   const groupItems = codebook.groupItems;
   const KEY_STRIDE = nItems * SLOTS;
-  const groupStates = groupItems.map((g) => ({
-    index: g.index,
-    keys: [] as string[],
-    /** The tallies of every key, key after key (items x SLOTS each): one flat array, so a cell's count is one increment. */
-    flat: new Float64Array(4 * KEY_STRIDE),
-    keyOf: new Map<string, number>(),
-    rowKeys: new Chunked(Uint32Array, expectedRows),
-  }));
+  const newGroupStates = () =>
+    groupItems.map((g) => ({
+      index: g.index,
+      keys: [] as string[],
+      /** The tallies of every key, key after key (items x SLOTS each): one flat array, so a cell's count is one increment. */
+      flat: new Float64Array(4 * KEY_STRIDE),
+      keyOf: new Map<string, number>(),
+      rowKeys: new Chunked(Uint32Array, expectedRows),
+    }));
+  let groupStates: ReturnType<typeof newGroupStates> = [];
   const groupKey = (gs: (typeof groupStates)[number], key: string): number => {
     let k = gs.keyOf.get(key);
     if (k === undefined) {
@@ -268,9 +276,33 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     }
     return k;
   };
-  const codeKeyCache = groupStates.map((gs) => new Int32Array(codebook.items[gs.index]!.codes.length).fill(-1));
+  const codeKeyCache = groupItems.map((g) => new Int32Array(g.codes.length));
 
   let rows = 0;
+
+  /** Starts the accumulators afresh: at creation, and after each finish() (the compiled closures stay). */
+  const begin = (): void => {
+    tallies = new Float64Array(nItems * SLOTS);
+    findingCounts = new Float64Array(nItems * NR);
+    ruleTotals = new Float64Array(NR);
+    severityTotals = new Float64Array(SEVERITIES.length);
+    kept = new Int32Array(NR);
+    routing = new Float64Array(nItems * 3);
+    ruleCounts = new Float64Array(ruleSlots.length * 4);
+    trimmed = new Float64Array(nItems);
+    unbinned = new Float64Array(nItems);
+    recordMissing = new Float64Array(nItems + 1);
+    findings = [];
+    columns = retainedShape.map((shape) => (shape === null ? null : shape === 'coded' ? new Chunked(Uint16Array, expectedRows) : new Chunked(Float64Array, expectedRows)));
+    idNumbers = idItem && idNumeric ? new Chunked(Float64Array, expectedRows) : null;
+    idTexts = idItem && !idNumeric ? [] : null;
+    idOdd = new Map<number, string>();
+    uniques = newUniques();
+    groupStates = newGroupStates();
+    for (let g = 0; g < groupStates.length; g++) groupFlat[g] = groupStates[g]!.flat;
+    for (const cache of codeKeyCache) cache.fill(-1);
+    rows = 0;
+  };
 
   /** Canonical id text of row r of the batch: a valid numeric id as its number, else the trimmed cell. */
   const rowId = (r: number): string => {
@@ -333,8 +365,8 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
   let f64Cols: Array<Float64Array | null> = [];
   let u16Cols: Array<Uint16Array | null> = [];
   let rowKeyData: Uint32Array[] = [];
-  const nGroups = groupStates.length;
-  const groupFlat: Float64Array[] = groupStates.map((gs) => gs.flat);
+  const nGroups = groupItems.length;
+  const groupFlat: Float64Array[] = [];
 
   /**
    * Classifies the cells of the k-th present item in rows 0..n-1 of the batch into the scratch.
@@ -656,7 +688,7 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     for (const gs of groupStates) gs.rowKeys.commit(n);
   };
 
-  const finish = (): PartialResult => ({
+  const partial = (): PartialResult => ({
     codebook,
     options,
     header: hmap,
@@ -677,6 +709,14 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     findings,
   });
 
+  /** The partial result of the rows pushed so far; the pass then starts afresh, its compiled code kept. */
+  const finish = (): PartialResult => {
+    const result = partial();
+    begin();
+    return result;
+  };
+
+  begin();
   return { push, finish };
 }
 

@@ -106,6 +106,30 @@ describe('mergePartials', () => {
     expect(comparable(split(rows, [450], {}, true))).toEqual(comparable(one));
   });
 
+  it('one pass finished and pushed again for each part (as a thread reuses it) merges to the single pass exactly', () => {
+    const one = single(batchesOf(rows, 100, false));
+    const bounds = [0, 200, 201, 650, rows.length];
+    const p = createPass(cb, header, {});
+    const parts = [];
+    for (let k = 0; k + 1 < bounds.length; k++) {
+      for (const b of batchesOf(rows.slice(bounds[k]!, bounds[k + 1]!), 64, false)) p.push(b);
+      const part = p.finish();
+      expect(part.rows).toBe(bounds[k + 1]! - bounds[k]!);
+      // Moved as a worker moves it: every typed array but the header's is transferred (detached
+      // here), so the pass must not read or write any of them for the next part.
+      const { codebook: _cb, header: _h, ...moved } = part;
+      const buffers = new Set<ArrayBuffer>();
+      const collect = (v: unknown): void => {
+        if (ArrayBuffer.isView(v)) buffers.add(v.buffer as ArrayBuffer);
+        else if (Array.isArray(v)) v.forEach(collect);
+        else if (v !== null && typeof v === 'object' && !(v instanceof Map)) Object.values(v).forEach(collect);
+      };
+      collect(moved);
+      parts.push(attachPartial(structuredClone(detachPartial(part), { transfer: [...buffers] }), cb));
+    }
+    expect(comparable(finalize(mergePartials(parts, bounds.slice(0, -1))))).toEqual(comparable(one));
+  });
+
   it('still equal when findings are capped per rule', () => {
     const opts = { maxFindingsPerRule: 5 };
     const one = single(batchesOf(rows, 100, false), opts);
