@@ -339,6 +339,9 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
   /** Present items missing in each row of the batch, and whether the row has a cell finding. */
   let rowMissing = new Uint16Array(0);
   let rowFlag = new Uint8Array(0);
+  /** The tally slot of each row's cell of the item being tallied, and each row's key offset in each group's flat tallies. */
+  let slotOf = new Int32Array(0);
+  const keyBase: Int32Array[] = [];
   const presentAt = new Int32Array(nItems).fill(-1);
   for (let k = 0; k < nPresent; k++) presentAt[presentIdx[k]!] = k;
   // Items whose per-row state the row loop reads: routing and rule variables, routed, unique and id items.
@@ -358,6 +361,8 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     }
     rowMissing = new Uint16Array(scratchRows);
     rowFlag = new Uint8Array(scratchRows);
+    slotOf = new Int32Array(scratchRows);
+    for (let g = 0; g < nGroups; g++) keyBase[g] = new Int32Array(scratchRows);
   };
 
   let fields: string[] = [];
@@ -417,16 +422,31 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
     const f64 = f64Cols[i]!;
     const codes = cellCode[k]!;
     const nums = cellNum[k]!;
+    const slots = slotOf;
+    // Valid cells are counted in a local: one increment of the same tally per row would make
+    // every row wait for the previous row's store.
+    let nValid = 0;
     for (let r = 0; r < n; r++) {
       const s = st[r]!;
       const valid = s <= VALID_WARN;
-      const slot = base + (valid ? 0 : s === MISSING ? 2 + aux[r]! : 1);
-      tallies[slot]++;
-      for (let g = 0; g < nGroups; g++) groupFlat[g]![rowKeyData[g]![r]! * KEY_STRIDE + slot]++;
+      let slot = base;
+      if (valid) nValid++;
+      else {
+        slot = base + (s === MISSING ? 2 + aux[r]! : 1);
+        tallies[slot]++;
+      }
+      slots[r] = slot;
       if (u16 !== null) u16[r] = valid ? codes[r]! + 1 : 0;
       else if (f64 !== null) f64[r] = valid ? nums[r]! : Number.NaN;
       if (s === MISSING) rowMissing[r]++;
       else if (s === VALID_WARN || s === INVALID) rowFlag[r] = 1;
+    }
+    tallies[base] += nValid;
+    // By group, one group item at a time: a tight loop over the row's key offset and slot.
+    for (let g = 0; g < nGroups; g++) {
+      const flat = groupFlat[g]!;
+      const at = keyBase[g]!;
+      for (let r = 0; r < n; r++) flat[at[r]! + slots[r]!]++;
     }
   };
 
@@ -447,6 +467,7 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
         if (key < 0) key = cache[ci] = groupKey(gs, codebook.items[gi]!.codes[ci]!.text);
       } else key = groupKey(gs, idNumericLike(cls[gi]!) ? String(cellNum[k]![r]!) : cellText[k]![r]!);
       rowKeyData[g]![r] = key;
+      keyBase[g]![r] = key * KEY_STRIDE;
     }
   };
 
