@@ -164,6 +164,15 @@ function compileItem(item: CompiledItem, out: CellOut, options: CheckOptions): I
   let pre = MISSING;
   /** Trims, answers blank, parses once; NaN with the outcome in `pre` when not a number. */
   const parseCell = (cell: string): number => {
+    // A single digit, the commonest cell of a coded item: nothing to trim, its value at once.
+    if (cell.length === 1) {
+      const d = cell.charCodeAt(0) - 48;
+      if (d >= 0 && d <= 9) {
+        out.spaced = false;
+        out.unbinned = false;
+        return d;
+      }
+    }
     const t = trim(cell);
     if (t === null) {
       out.kind = 0;
