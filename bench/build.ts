@@ -1,6 +1,7 @@
 /**
- * `pnpm build`: bundles the CLI into one ESM file, `dist/codeweir.mjs`, and the parallel check
- * worker into `dist/check-worker.mjs`, with esbuild. From source every start pays for the
+ * `pnpm build`: bundles the CLI into one ESM file, `dist/codeweir.mjs`, and the worker threads
+ * of the parallel check and describe into `dist/check-worker.mjs` and `dist/describe-worker.mjs`,
+ * with esbuild. From source every start pays for the
  * TypeScript loader (tsx) compiling the workspace, several times a bare `node` start; the bundle
  * is plain JavaScript and starts close to bare node. `node dist/codeweir.mjs <command>` is the
  * same CLI as `pnpm codeweir <command>`. Shared code goes to `dist/chunk-*.mjs`.
@@ -106,15 +107,19 @@ export const asciiWidthFirst: Plugin = {
  */
 export async function buildBundle(force = false, outdir = join(ROOT, 'dist'), minify = true): Promise<void> {
   const cli = join(outdir, 'codeweir.mjs');
-  const worker = join(outdir, 'check-worker.mjs');
+  const workers = [join(outdir, 'check-worker.mjs'), join(outdir, 'describe-worker.mjs')];
   const stale = (f: string): boolean => force || !existsSync(f) || statSync(f).mtimeMs < newestSource(join(ROOT, 'packages'));
-  if (!stale(cli) && !stale(worker)) return;
+  if (!stale(cli) && !workers.some(stale)) return;
   mkdirSync(outdir, { recursive: true });
   // Chunk names are content hashes: the previous build's chunks would otherwise pile up.
   for (const f of readdirSync(outdir)) if (/^chunk-[A-Z0-9]+\.mjs(\.map)?$/.test(f)) rmSync(join(outdir, f));
   copyFileSync(join(ROOT, 'packages/codebook/codebook.schema.json'), join(outdir, 'codebook.schema.json'));
   await build({
-    entryPoints: { codeweir: join(ROOT, 'packages/cli/src/bin.ts'), 'check-worker': join(ROOT, 'packages/check/src/parallel.ts') },
+    entryPoints: {
+      codeweir: join(ROOT, 'packages/cli/src/bin.ts'),
+      'check-worker': join(ROOT, 'packages/check/src/parallel.ts'),
+      'describe-worker': join(ROOT, 'packages/describe/src/parallel.ts'),
+    },
     outdir,
     outExtension: { '.js': '.mjs' },
     // Code split at dynamic imports, so a command loads only what it uses; chunks sit beside

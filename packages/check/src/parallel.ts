@@ -13,13 +13,9 @@
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
 import { availableParallelism } from 'node:os';
 import { stat } from 'node:fs/promises';
-import { createRequire } from 'node:module';
-import { readFileSync } from 'node:fs';
-import { dirname, join } from 'node:path';
-import { pathToFileURL } from 'node:url';
 import { compileCodebook, type Codebook, type CompiledCodebook } from '@codeweir/codebook';
 import { openDelivery, openDeliveryRange, splitDelivery, type ByteRange, type ReadOptions } from '@codeweir/read';
-import { CodeweirError, isCodeweirError, type ErrorCode } from '@codeweir/core';
+import { CodeweirError, isCodeweirError, workerEntry, type ErrorCode } from '@codeweir/core';
 import { createPass, detachPartial, attachPartial, type DetachedPartial, type PartialResult, type Pass } from './pass.ts';
 import { mergePartials, finalize } from './finalize.ts';
 import { normalizeCheckOptions, type CheckOptions, type CheckOptionsInput } from './options.ts';
@@ -97,20 +93,6 @@ function transferables(value: unknown, out: Set<ArrayBuffer> = new Set(), seen: 
   return [...out];
 }
 
-/** How a worker thread is started: the bundle's worker file, or this source file through tsx. */
-function workerEntry(): { file: string | URL; eval: boolean } {
-  const here = import.meta.url;
-  if (!here.endsWith('.ts')) return { file: new URL('./check-worker.mjs', here), eval: false };
-  // From TypeScript source the worker must register the tsx loader before importing this file
-  // (a worker's execArgv does not carry --import hooks on Node 20).
-  const require = createRequire(here);
-  const pkg = require.resolve('tsx/package.json');
-  const api = JSON.parse(readFileSync(pkg, 'utf8')).exports['./esm/api'].import.default as string;
-  const apiUrl = pathToFileURL(join(dirname(pkg), api)).href;
-  const code = `import(${JSON.stringify(apiUrl)}).then((m) => { m.register(); return import(${JSON.stringify(here)}); });`;
-  return { file: code, eval: true };
-}
-
 function rebuildError(e: { code?: ErrorCode; message: string; codeweir: boolean }): Error {
   return e.codeweir && e.code ? new CodeweirError(e.code, e.message) : new Error(e.message);
 }
@@ -144,7 +126,7 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
   const perThread = rangesPerThread ?? 6;
   // At least `threads` ranges (threads >= 2 here), at most perThread each, none under MIN_RANGE_BYTES.
   const wanted = minParallelBytes === 0 ? threads * perThread : Math.max(threads, Math.min(threads * perThread, Math.floor(size / MIN_RANGE_BYTES)));
-  const entry = workerEntry();
+  const entry = workerEntry(import.meta.url, 'check-worker.mjs');
   const init: WorkerInit = { marker: MARKER, path, source: codebook.source, codebookFile: codebook.file, options };
   // Workers start loading before the file is split: their start-up overlaps the split scan.
   const workers: Worker[] = [];

@@ -4,7 +4,7 @@ import { CodeweirError } from '@codeweir/core';
 /** The `--threads` option as check, describe and report declare it. */
 export const THREADS_OPTION = {
   type: 'string',
-  describe: 'threads for reading and checking the delivery (default: the number of cores; 1 = one thread)',
+  describe: 'threads for checking the delivery and describing its interval and ratio items (default: the number of cores; 1 = one thread)',
 } as const;
 
 /**

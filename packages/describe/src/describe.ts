@@ -3,7 +3,7 @@ import type { CheckResult, ItemColumn } from '@codeweir/check';
 import type { DescribeResult, ItemDescription } from './types.ts';
 import { normalizeDescribeOptions, type DescribeOptions, type DescribeOptionsInput, type NormalizedDescribeOptions } from './options.ts';
 import { conventionsFor, type ConventionKey } from './conventions.ts';
-import { resolveWeight } from './weights.ts';
+import { resolveWeight, type WeightColumn } from './weights.ts';
 import { describeCategorical, type Category } from './categorical.ts';
 import { describeContinuous } from './continuous.ts';
 import { describePairs } from './pairs.ts';
@@ -32,11 +32,32 @@ export function describe(
   options: DescribeOptions | DescribeOptionsInput | NormalizedDescribeOptions = {},
 ): DescribeResult {
   const opts = normalizeDescribeOptions(options as DescribeOptionsInput);
-  const store = result.store;
-  const weight = resolveWeight(store, codebook, opts.weight);
+  const weight = resolveWeight(result.store, codebook, opts.weight);
   // Pairs first: a bad pair name fails before any work on the items.
   const pairs = opts.pairs === 'all' || opts.pairs.length > 0 ? describePairs(result, codebook, opts) : [];
+  return assembleDescription(result, codebook, opts, weight, pairs, (item, col, w) => describeItem(item, col, result, opts, w));
+}
 
+/** One item's description and the convention keys it used. */
+export interface ItemPart {
+  description: ItemDescription;
+  conventions: ConventionKey[];
+}
+
+/**
+ * The description of every described item (in codebook order), each from `describeOne`, with
+ * the pairs and conventions around them: the one place that shapes a DescribeResult, for one
+ * thread and several. Cost: that of describeOne per item. Throws what describeOne throws.
+ */
+export function assembleDescription(
+  result: CheckResult,
+  codebook: CompiledCodebook,
+  opts: NormalizedDescribeOptions,
+  weight: WeightColumn | undefined,
+  pairs: DescribeResult['pairs'],
+  describeOne: (item: CompiledItem, col: ItemColumn, weights: Float64Array | undefined) => ItemPart,
+): DescribeResult {
+  const store = result.store;
   const used = new Set<ConventionKey>(['percent', 'mode']);
   const items: Record<string, ItemDescription> = {};
   for (const item of codebook.items) {
@@ -44,7 +65,7 @@ export function describe(
     const col = store.columns[item.name];
     if (!col) continue;
     const w = weight && weight.item !== item.name ? weight.weights : undefined;
-    const { description, conventions } = describeItem(item, col, result, opts, w);
+    const { description, conventions } = describeOne(item, col, w);
     for (const c of conventions) used.add(c);
     items[item.name] = description;
   }
@@ -65,6 +86,14 @@ export function describe(
   if (weight) out.weight = weight.item;
   if (opts.listwise) out.listwise = true;
   return out;
+}
+
+/**
+ * Whether an item is summarised from its numeric values with a sort (interval and ratio items
+ * that are not binned, with a numeric column): the items worth a thread of their own.
+ */
+export function isContinuous(item: CompiledItem, col: ItemColumn | undefined): col is Extract<ItemColumn, { kind: 'numeric' }> {
+  return col !== undefined && col.kind === 'numeric' && (item.level === 'interval' || item.level === 'ratio') && !item.binned && item.role !== 'id';
 }
 
 /** Categories and per-row category of a column summarised as nominal or ordinal. */
@@ -96,7 +125,8 @@ function numbersOf(item: CompiledItem, col: ItemColumn): Float64Array | undefine
   return out;
 }
 
-function describeItem(
+/** One item's description from its column (see describe). `result` gives the item's tallies. */
+export function describeItem(
   item: CompiledItem,
   col: ItemColumn,
   result: CheckResult,

@@ -1,5 +1,6 @@
 export type * from './types.ts';
 export { describe } from './describe.ts';
+export { describeParallel, type DescribeThreads } from './parallel.ts';
 export {
   normalizeDescribeOptions,
   type DescribeOptions,

@@ -124,7 +124,7 @@ export const describeCommand: CommandDef = {
     }
     const threads = threadsOption(args.threads);
     // Loaded here, not at the top, so that starting the CLI costs only the command it runs.
-    const [{ loadCodebookOrThrow }, { checkFile }, { describe, normalizeDescribeOptions }] = await Promise.all([
+    const [{ loadCodebookOrThrow }, { checkFile }, { describeParallel, normalizeDescribeOptions }] = await Promise.all([
       import('@codeweir/codebook'),
       import('@codeweir/check'),
       import('@codeweir/describe'),
@@ -143,7 +143,7 @@ export const describeCommand: CommandDef = {
       encoding: args.encoding,
       threads,
     });
-    const described = describe(result, codebook, options);
+    const described = await describeParallel(result, codebook, options, { threads });
     io.stdout(args.json === true ? JSON.stringify(described, null, 2) + '\n' : describeText(described, dateItems(codebook)));
     // The exit code follows the contract for every command: 1 when the delivery has findings
     // at error severity. The summaries above cover valid cells only, so they stand either way.

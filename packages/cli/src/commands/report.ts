@@ -55,7 +55,7 @@ export const reportCommand: CommandDef = {
     const threads = threadsOption(args.threads);
     // Loaded here, not at the top, so that starting the CLI costs only the command it runs (the
     // report package, with its chart libraries, is by far the largest).
-    const [{ loadCodebookOrThrow }, { checkDelivery, checkFile, normalizeCheckOptions }, { describe, normalizeDescribeOptions }, { openDelivery }, { renderReport }] = await Promise.all([
+    const [{ loadCodebookOrThrow }, { checkDelivery, checkFile, normalizeCheckOptions }, { describeParallel, normalizeDescribeOptions }, { openDelivery }, { renderReport }] = await Promise.all([
       import('@codeweir/codebook'),
       import('@codeweir/check'),
       import('@codeweir/describe'),
@@ -86,7 +86,7 @@ export const reportCommand: CommandDef = {
       }
       result.summary.file = data;
       progress.phase('describing');
-      const described = describe(result, codebook, describeOptions);
+      const described = await describeParallel(result, codebook, describeOptions, { threads });
       progress.phase('drawing charts');
       const html = await renderReport({ check: result, describe: described, codebook, file: data });
       await writeFileAtomic(outPath, html);

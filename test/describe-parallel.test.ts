@@ -1,0 +1,43 @@
+/**
+ * Describing on several threads must give exactly what one thread gives: the same items, the
+ * same figures to the bit, the same conventions, in the same order. The expectation is the
+ * single-thread `describe` itself (whose figures the demo and reference tests check against
+ * outside oracles), on the demo delivery with its weight item.
+ */
+import { describe as suite, it, expect, beforeAll } from 'vitest';
+import { fileURLToPath } from 'node:url';
+import { loadCodebookOrThrow, type CompiledCodebook } from '@codeweir/codebook';
+import { checkFile, type CheckResult } from '@codeweir/check';
+import { describe, describeParallel } from '@codeweir/describe';
+
+const root = fileURLToPath(new URL('..', import.meta.url));
+let codebook: CompiledCodebook;
+let result: CheckResult;
+
+beforeAll(async () => {
+  codebook = await loadCodebookOrThrow(`${root}examples/household.codebook.json`);
+  result = await checkFile(`${root}examples/demo-delivery.csv`, codebook);
+});
+
+suite('describeParallel', () => {
+  it('equals describe when the worker threads describe every interval and ratio item (weighted figures included)', async () => {
+    const one = describe(result, codebook, { percentiles: [10, 90] });
+    // The demo has several interval and ratio items and a weight item: the workers' share is real work.
+    const continuous = Object.values(one.items).filter((d) => d.level === 'interval' || d.level === 'ratio');
+    expect(continuous.length).toBeGreaterThanOrEqual(4);
+    expect(one.weight).toBeDefined();
+    const all = await describeParallel(result, codebook, { percentiles: [10, 90] }, { threads: 3, minRows: 0, useCallingThread: false });
+    expect(JSON.stringify(all)).toBe(JSON.stringify(one));
+  }, 60_000);
+
+  it('equals describe with the calling thread sharing the items, and with one thread', async () => {
+    const one = describe(result, codebook, { quantileType: 6 });
+    expect(JSON.stringify(await describeParallel(result, codebook, { quantileType: 6 }, { threads: 2, minRows: 0 }))).toBe(JSON.stringify(one));
+    expect(JSON.stringify(await describeParallel(result, codebook, { quantileType: 6 }, { threads: 1 }))).toBe(JSON.stringify(one));
+  }, 60_000);
+
+  it('fails on a bad option before any thread starts, with the error describe gives', async () => {
+    expect(() => describe(result, codebook, { weight: 'nope' })).toThrow(/--weight names "nope"/);
+    await expect(describeParallel(result, codebook, { weight: 'nope' }, { threads: 2, minRows: 0 })).rejects.toThrow(/--weight names "nope"/);
+  });
+});
