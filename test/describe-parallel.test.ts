@@ -7,7 +7,7 @@
 import { describe as suite, it, expect, beforeAll } from 'vitest';
 import { fileURLToPath } from 'node:url';
 import { loadCodebookOrThrow, type CompiledCodebook } from '@codeweir/codebook';
-import { checkFile, type CheckResult } from '@codeweir/check';
+import { checkFile, checkFileParallel, type CheckResult } from '@codeweir/check';
 import { describe, describeParallel } from '@codeweir/describe';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
@@ -34,6 +34,15 @@ suite('describeParallel', () => {
     const one = describe(result, codebook, { quantileType: 6 });
     expect(JSON.stringify(await describeParallel(result, codebook, { quantileType: 6 }, { threads: 2, minRows: 0 }))).toBe(JSON.stringify(one));
     expect(JSON.stringify(await describeParallel(result, codebook, { quantileType: 6 }, { threads: 1 }))).toBe(JSON.stringify(one));
+  }, 60_000);
+
+  it('equals describe on a threaded check, whose shared columns the workers read without a copy', async () => {
+    const threaded = await checkFileParallel(`${root}examples/demo-delivery.csv`, codebook, { threads: 2, minParallelBytes: 0 });
+    const col = Object.values(threaded.store.columns).find((c) => c.kind === 'numeric')!;
+    expect(col.kind === 'numeric' && col.values.buffer instanceof SharedArrayBuffer).toBe(true);
+    const one = describe(threaded, codebook);
+    expect(JSON.stringify(one)).toBe(JSON.stringify(describe(result, codebook)));
+    expect(JSON.stringify(await describeParallel(threaded, codebook, {}, { threads: 2, minRows: 0, useCallingThread: false }))).toBe(JSON.stringify(one));
   }, 60_000);
 
   it('fails on a bad option before any thread starts, with the error describe gives', async () => {

@@ -196,7 +196,8 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
     if (isCodeweirError(failure)) return single();
     throw failure;
   }
-  const merged = mergePartials(partials as PartialResult[], undefined, { release: true });
+  // Shared columns: describe's worker threads read them without a copy.
+  const merged = mergePartials(partials as PartialResult[], undefined, { release: true, shared: true });
   merged.file = delivery.file;
   return finalize(merged);
 }

@@ -51,6 +51,17 @@ export interface DescribeThreads {
   useCallingThread?: boolean;
 }
 
+/**
+ * `values` in a SharedArrayBuffer: itself when it is already there (a threaded check's merged
+ * columns are), else one copy, which every worker then reads without a copy of its own.
+ */
+function shared(values: Float64Array): Float64Array {
+  if (values.buffer instanceof SharedArrayBuffer) return values;
+  const out = new Float64Array(new SharedArrayBuffer(values.byteLength));
+  out.set(values);
+  return out;
+}
+
 /** The part of a check result that describing one item reads: the item's tallies. */
 function tallyOnly(name: string, tally: Job['items'][number]['tally']): CheckResult {
   return { summary: { items: tally ? { [name]: tally } : {} } } as unknown as CheckResult;
@@ -61,8 +72,9 @@ function tallyOnly(name: string, tally: Job['items'][number]['tally']): CheckRes
  * the interval and ratio items spread over `threads` threads (default: the number of cores).
  * Convention: as describe (quantiles of the chosen Hyndman-Fan type, sd with n - 1, ...).
  * Cost: describe's work, its sorts shared among the threads; each worker costs a start-up (a
- * few hundred milliseconds, overlapped with the calling thread's own items) and a copy of the
- * columns it may describe. Deliveries under `minRows` rows, or with fewer than two such items,
+ * few hundred milliseconds, overlapped with the calling thread's own items). The workers read
+ * the interval and ratio columns from SharedArrayBuffers: no copy when the check ran on
+ * several threads (its merged columns are shared), else one copy for all workers. Deliveries under `minRows` rows, or with fewer than two such items,
  * are described on the calling thread. Throws what describe throws (CW_USAGE for bad options),
  * before any thread starts. A worker that fails leaves its items to the calling thread.
  * @example const d = await describeParallel(checkResult, codebook, { weight: 'w' }, { threads: 2 });
@@ -91,9 +103,9 @@ export async function describeParallel(
     const job: Job = {
       items: heavy.map((item) => {
         const col = store.columns[item.name] as Extract<ItemColumn, { kind: 'numeric' }>;
-        return { name: item.name, values: col.values, tally: result.summary.items[item.name], weighted: weight !== undefined && weight.item !== item.name };
+        return { name: item.name, values: shared(col.values), tally: result.summary.items[item.name], weighted: weight !== undefined && weight.item !== item.name };
       }),
-      weights: weight?.weights,
+      weights: weight ? shared(weight.weights) : undefined,
       opts,
       next,
     };
@@ -116,7 +128,7 @@ export async function describeParallel(
           w.on('error', () => resolve());
           w.on('messageerror', () => resolve());
           w.on('exit', () => resolve());
-          // The columns are copied to the worker: the calling thread keeps its own.
+          // The columns are shared, not copied, however many workers there are.
           w.postMessage(job);
         }),
     );
