@@ -36,10 +36,8 @@ suite('describeParallel', () => {
     expect(JSON.stringify(await describeParallel(result, codebook, { quantileType: 6 }, { threads: 1 }))).toBe(JSON.stringify(one));
   }, 60_000);
 
-  it('equals describe on a threaded check, whose shared columns the workers read without a copy', async () => {
+  it('equals describe on the result of a threaded check', async () => {
     const threaded = await checkFileParallel(`${root}examples/demo-delivery.csv`, codebook, { threads: 2, minParallelBytes: 0 });
-    const col = Object.values(threaded.store.columns).find((c) => c.kind === 'numeric')!;
-    expect(col.kind === 'numeric' && col.values.buffer instanceof SharedArrayBuffer).toBe(true);
     const one = describe(threaded, codebook);
     expect(JSON.stringify(one)).toBe(JSON.stringify(describe(result, codebook)));
     expect(JSON.stringify(await describeParallel(threaded, codebook, {}, { threads: 2, minRows: 0, useCallingThread: false }))).toBe(JSON.stringify(one));

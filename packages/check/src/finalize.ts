@@ -42,12 +42,11 @@ export function sortAndCapFindings(findings: Finding[], codebook: CompiledCodebo
   return out;
 }
 
-function concatTyped<T extends Float64Array | Uint16Array | Uint32Array>(parts: T[], shared = false): T {
+function concatTyped<T extends Float64Array | Uint16Array | Uint32Array>(parts: T[]): T {
   // One part: nothing to join, and no copy (the merged result only reads its columns).
-  if (parts.length === 1 && !shared) return parts[0]!;
+  if (parts.length === 1) return parts[0]!;
   const total = parts.reduce((s, p) => s + p.length, 0);
-  const Ctor = parts[0]!.constructor as { new (n: number): T; new (b: SharedArrayBuffer): T; BYTES_PER_ELEMENT: number };
-  const out = shared ? new Ctor(new SharedArrayBuffer(total * Ctor.BYTES_PER_ELEMENT)) : new Ctor(total);
+  const out = new (parts[0]!.constructor as { new (n: number): T })(total);
   let at = 0;
   for (const p of parts) {
     out.set(p as never, at);
@@ -74,15 +73,12 @@ function sumInto(target: Float64Array, src: Float64Array): void {
  * shifted to global rows, sorted and capped per rule. With `release`, the parts' per-row arrays
  * (columns, row keys, ids, unique tables) are dropped from the parts as soon as they are copied,
  * so the merge needs memory for the result plus one column, not a second copy of every column;
- * the parts are then spent and must not be merged again. With `shared`, the merged retained
- * columns live in SharedArrayBuffers, so worker threads can read them without a copy (describe
- * on several threads does).
+ * the parts are then spent and must not be merged again.
  * Cost: O(rows x retained items + distinct unique values). Throws CodeweirError CW_USAGE when
  * `parts` is empty or the parts were made with different headers.
  */
-export function mergePartials(parts: PartialResult[], rowOffsets?: readonly number[], how: { release?: boolean; shared?: boolean } = {}): PartialResult {
+export function mergePartials(parts: PartialResult[], rowOffsets?: readonly number[], how: { release?: boolean } = {}): PartialResult {
   const release = how.release === true;
-  const shared = how.shared === true;
   if (parts.length === 0) throw new CodeweirError('CW_USAGE', 'mergePartials needs at least one partial result.');
   const first = parts[0]!;
   const offs: number[] = [];
@@ -164,7 +160,7 @@ export function mergePartials(parts: PartialResult[], rowOffsets?: readonly numb
 
   const columns = first.columns.map((c, i) => {
     if (c === null) return null;
-    const merged = concatTyped(parts.map((p) => p.columns[i]!), shared);
+    const merged = concatTyped(parts.map((p) => p.columns[i]!));
     if (release) for (const p of parts) p.columns[i] = null;
     return merged;
   });

@@ -196,8 +196,7 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
     if (isCodeweirError(failure)) return single();
     throw failure;
   }
-  // Shared columns: describe's worker threads read them without a copy.
-  const merged = mergePartials(partials as PartialResult[], undefined, { release: true, shared: true });
+  const merged = mergePartials(partials as PartialResult[], undefined, { release: true });
   merged.file = delivery.file;
   return finalize(merged);
 }

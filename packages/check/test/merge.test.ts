@@ -130,23 +130,6 @@ describe('mergePartials', () => {
     expect(comparable(finalize(mergePartials(parts, bounds.slice(0, -1))))).toEqual(comparable(one));
   });
 
-  it('merging into shared columns gives the same values, in SharedArrayBuffers', () => {
-    const bounds = [0, 450, rows.length];
-    const parts = [];
-    for (let k = 0; k + 1 < bounds.length; k++) {
-      const p = createPass(cb, header, {});
-      for (const b of batchesOf(rows.slice(bounds[k]!, bounds[k + 1]!), 64, false)) p.push(b);
-      parts.push(p.finish());
-    }
-    const merged = finalize(mergePartials(parts, bounds.slice(0, -1), { shared: true }));
-    expect(comparable(merged)).toEqual(comparable(single(batchesOf(rows, 100, false))));
-    const numeric = Object.values(merged.store.columns).filter((c) => c.kind === 'numeric');
-    expect(numeric.length).toBeGreaterThan(0);
-    for (const c of Object.values(merged.store.columns)) {
-      expect((c.kind === 'coded' ? c.codes : c.values).buffer instanceof SharedArrayBuffer).toBe(true);
-    }
-  });
-
   it('still equal when findings are capped per rule', () => {
     const opts = { maxFindingsPerRule: 5 };
     const one = single(batchesOf(rows, 100, false), opts);

@@ -51,12 +51,8 @@ export interface DescribeThreads {
   useCallingThread?: boolean;
 }
 
-/**
- * `values` in a SharedArrayBuffer: itself when it is already there (a threaded check's merged
- * columns are), else one copy, which every worker then reads without a copy of its own.
- */
+/** A copy of `values` in a SharedArrayBuffer, which every worker then reads without a copy of its own. */
 function shared(values: Float64Array): Float64Array {
-  if (values.buffer instanceof SharedArrayBuffer) return values;
   const out = new Float64Array(new SharedArrayBuffer(values.byteLength));
   out.set(values);
   return out;
@@ -72,9 +68,9 @@ function tallyOnly(name: string, tally: Job['items'][number]['tally']): CheckRes
  * the interval and ratio items spread over `threads` threads (default: the number of cores).
  * Convention: as describe (quantiles of the chosen Hyndman-Fan type, sd with n - 1, ...).
  * Cost: describe's work, its sorts shared among the threads; each worker costs a start-up (a
- * few hundred milliseconds, overlapped with the calling thread's own items). The workers read
- * the interval and ratio columns from SharedArrayBuffers: no copy when the check ran on
- * several threads (its merged columns are shared), else one copy for all workers. Deliveries under `minRows` rows, or with fewer than two such items,
+ * few hundred milliseconds, overlapped with the calling thread's own items). The interval and
+ * ratio columns (and the weights) are copied once into SharedArrayBuffers that every worker
+ * reads: 8 bytes per row per such item, however many workers there are. Deliveries under `minRows` rows, or with fewer than two such items,
  * are described on the calling thread. Throws what describe throws (CW_USAGE for bad options),
  * before any thread starts. A worker that fails leaves its items to the calling thread.
  * @example const d = await describeParallel(checkResult, codebook, { weight: 'w' }, { threads: 2 });
