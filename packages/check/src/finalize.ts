@@ -1,9 +1,9 @@
 /**
  * Combining partial passes and turning a pass into its CheckResult.
  */
-import { quantilesInPlace, tukeyFences } from '@codeweir/stats';
+import { quantilesInPlace, tukeyFences, type QuantileType } from '@codeweir/stats';
 import { CodeweirError } from '@codeweir/core';
-import type { CompiledCodebook } from '@codeweir/codebook';
+import type { CompiledCodebook, CompiledItem } from '@codeweir/codebook';
 import { KINDS } from './classify.ts';
 import { rules, RULE_NUMBER, RULE_ORDER } from './rules/index.ts';
 import { SEVERITIES, SLOTS, type GroupPartial, type IdColumn, type PartialResult } from './pass.ts';
@@ -208,14 +208,36 @@ function idOfRow(ids: IdColumn | null, row: number): string {
   return String(v);
 }
 
-/** Copies the valid (non-NaN) values of `col` to the start of `out`; returns how many. Cost: O(n). */
-function copyValid(col: Float64Array, out: Float64Array): number {
-  let m = 0;
+/** Copies the valid (non-NaN) values of `col` to `out` from `at`; returns where they end. Cost: O(n). */
+function copyValid(col: Float64Array, out: Float64Array, at = 0): number {
+  let m = at;
   for (let r = 0; r < col.length; r++) {
     const v = col[r]!;
     if (v === v) out[m++] = v; // NaN marks a cell that is not valid
   }
   return m;
+}
+
+/** Whether an item gets Tukey fences: interval or ratio, not text, with retained numeric values. */
+export function isFenced(item: CompiledItem, column: unknown): column is Float64Array {
+  return (item.level === 'interval' || item.level === 'ratio') && item.type !== 'text' && column instanceof Float64Array;
+}
+
+/**
+ * The quartiles (q1, q3) by which an item's Tukey fences are set, of the valid (non-NaN) values
+ * of one column given in one or more pieces (the parts of a split pass, in any order); null when
+ * no value is valid. `scratch`, when at least as long as the pieces together, is used for the
+ * copy of the valid values.
+ * Convention: Hyndman-Fan type `type`, identical to quantileSorted of the sorted valid values
+ * (selection, not a sort). Cost: O(n) expected, one n-value copy. Throws nothing.
+ */
+export function fenceQuartiles(pieces: readonly Float64Array[], type: QuantileType, scratch?: Float64Array): [number, number] | null {
+  const n = pieces.reduce((s, c) => s + c.length, 0);
+  const buf = scratch !== undefined && scratch.length >= n ? scratch : new Float64Array(n);
+  let m = 0;
+  for (const c of pieces) m = copyValid(c, buf, m);
+  if (m === 0) return null;
+  return quantilesInPlace(buf.subarray(0, m), [0.25, 0.75], type) as [number, number];
 }
 
 /** 0-based indices of the values below `lower` or above `upper`, in order (NaN is neither). Cost: O(n). */
@@ -244,10 +266,12 @@ function fenceText(v: number): string {
  * q3 + 3 IQR (extreme beyond; an extreme value is reported once, as extreme). Outlier values
  * are written as the parsed number. Findings are sorted (row, column, rule), group codes of
  * their rows attached, and capped per rule. The delivery is accepted when nothing is at error
- * severity. Cost: O(rows) expected per fenced item (quartiles by selection, no sort), one
- * rows-long scratch buffer. Throws nothing.
+ * severity. `given.quartiles` (by item index) holds fence quartiles already computed elsewhere
+ * with {@link fenceQuartiles} on the same values (a worker thread does, while this thread
+ * merges); the others are computed here. Cost: O(rows) expected per fenced item (quartiles by
+ * selection, no sort), one rows-long scratch buffer. Throws nothing.
  */
-export function finalize(p: PartialResult): CheckResult {
+export function finalize(p: PartialResult, given?: { quartiles?: ReadonlyMap<number, [number, number] | null> }): CheckResult {
   const { codebook, options, header } = p;
   const findingCounts = Float64Array.from(p.findingCounts);
   const ruleTotals = Float64Array.from(p.ruleTotals);
@@ -304,13 +328,14 @@ export function finalize(p: PartialResult): CheckResult {
   let scratch: Float64Array | null = null;
   for (const item of codebook.items) {
     const col = p.columns[item.index];
-    const fenced = (item.level === 'interval' || item.level === 'ratio') && item.type !== 'text' && col instanceof Float64Array;
-    if (!fenced) continue;
-    if (scratch === null || scratch.length < col.length) scratch = new Float64Array(col.length);
-    const m = copyValid(col, scratch);
-    if (m === 0) continue;
-    // Selection, not a sort: identical quartiles to quantileSorted of the sorted values, in O(n).
-    const [q1, q3] = quantilesInPlace(scratch.subarray(0, m), [0.25, 0.75], options.quantileType) as [number, number];
+    if (!isFenced(item, col)) continue;
+    let quartiles = given?.quartiles?.get(item.index);
+    if (quartiles === undefined) {
+      if (scratch === null || scratch.length < col.length) scratch = new Float64Array(col.length);
+      quartiles = fenceQuartiles([col], options.quantileType, scratch);
+    }
+    if (quartiles === null) continue;
+    const [q1, q3] = quartiles;
     const f = tukeyFences(q1, q3);
     fences[item.name] = { q1, q3, ...f };
     let keptOut = 0;

@@ -6,6 +6,8 @@
  * result, whose typed arrays are transferred, not copied. The partials are merged in file
  * order (`mergePartials`) and finalized once, so the result is the one a single pass gives:
  * counts add, retained columns concatenate, duplicates across ranges resolve in row order.
+ * While the calling thread merges, one worker computes the fence quartiles of the interval and
+ * ratio items from copies of the parts' columns (the same selection finalize would run).
  *
  * This module is also the worker's entry: started as a worker with the marker in
  * `workerData`, it compiles the codebook from its JSON source once and serves ranges.
@@ -16,8 +18,9 @@ import { stat } from 'node:fs/promises';
 import { compileCodebook, type Codebook, type CompiledCodebook } from '@codeweir/codebook';
 import { openDelivery, openDeliveryRange, splitDelivery, type ByteRange, type ReadOptions } from '@codeweir/read';
 import { CodeweirError, isCodeweirError, workerEntry, type ErrorCode } from '@codeweir/core';
+import type { QuantileType } from '@codeweir/stats';
 import { createPass, detachPartial, attachPartial, type DetachedPartial, type PartialResult, type Pass } from './pass.ts';
-import { mergePartials, finalize } from './finalize.ts';
+import { mergePartials, finalize, fenceQuartiles, isFenced } from './finalize.ts';
 import { normalizeCheckOptions, type CheckOptions, type CheckOptionsInput } from './options.ts';
 import { checkDelivery } from './check.ts';
 import type { CheckResult } from './types.ts';
@@ -55,7 +58,10 @@ type ToWorker = { ranges: ByteRange[]; next: Int32Array };
 type FromWorker =
   | { index: number; partial: DetachedPartial }
   | { index: number; error: { code?: ErrorCode; message: string; codeweir: boolean } }
-  | { done: true };
+  | { done: true }
+  | { quartiles: Array<[number, number] | null> };
+/** After its ranges, a worker computes fence quartiles (each item's column in pieces, one per part) or stops. */
+type AfterRanges = { fences: Float64Array[][]; quantileType: QuantileType } | { stop: true };
 
 function readOptionsOf(o: CheckOptions): ReadOptions {
   return { delimiter: o.delimiter, encoding: o.encoding, maxFieldBytes: o.maxFieldBytes };
@@ -160,6 +166,7 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
     new Promise<void>((resolve) => {
       let done = false;
       w.on('message', (m: FromWorker) => {
+        if ('quartiles' in m) return; // answered to the fences request below
         if ('done' in m) {
           done = true;
           resolve();
@@ -196,9 +203,25 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
     if (isCodeweirError(failure)) return single();
     throw failure;
   }
-  const merged = mergePartials(partials as PartialResult[], undefined, { release: true });
+  // The fence quartiles of every fenced item on one worker (from copies of the parts' columns),
+  // while this thread merges; the other workers stop. Should that worker fail, finalize
+  // computes the quartiles itself.
+  const finished = partials as PartialResult[];
+  const fenced = codebook.items.filter((item) => isFenced(item, finished[0]!.columns[item.index])).map((item) => item.index);
+  const helper = fenced.length > 0 ? workers[0] : undefined;
+  const quartiles = new Promise<Map<number, [number, number] | null> | undefined>((resolve) => {
+    if (helper === undefined) return resolve(undefined);
+    helper.on('message', (m: FromWorker) => {
+      if ('quartiles' in m) resolve(new Map(fenced.map((i, k) => [i, m.quartiles[k]!])));
+    });
+    helper.once('exit', () => resolve(undefined));
+    helper.once('error', () => resolve(undefined));
+    helper.postMessage({ fences: fenced.map((i) => finished.map((p) => p.columns[i] as Float64Array)), quantileType: options.quantileType } satisfies AfterRanges);
+  });
+  for (const w of workers) if (w !== helper) w.postMessage({ stop: true } satisfies AfterRanges);
+  const merged = mergePartials(finished, undefined, { release: true });
   merged.file = delivery.file;
-  return finalize(merged);
+  return finalize(merged, { quartiles: await quartiles });
 }
 
 async function serve(init: WorkerInit): Promise<void> {
@@ -225,7 +248,14 @@ async function serve(init: WorkerInit): Promise<void> {
       }
     }
     port.postMessage({ done: true } satisfies FromWorker);
-    port.close();
+    // Then, at most once: the fence quartiles of some items, from the parts' columns, while the
+    // calling thread merges; or word that there is nothing more to do.
+    port.once('message', (m: AfterRanges) => {
+      if ('fences' in m) {
+        port.postMessage({ quartiles: m.fences.map((pieces) => fenceQuartiles(pieces, m.quantileType)) } satisfies FromWorker);
+      }
+      port.close();
+    });
   });
 }
 

@@ -7,6 +7,8 @@
 import { describe, it, expect } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { codebook, run, idItem } from './helpers.ts';
+import { createPass, finalize } from '../src/index.ts';
+import { fenceQuartiles } from '../src/finalize.ts';
 
 interface Sample {
   x: number[];
@@ -64,5 +66,46 @@ describe('Tukey fences from the retained values', () => {
     expect(rows.length).toBeGreaterThan(3);
     expect(capped.summary.findings.byRule.outlier).toBe(rows.length);
     expect(capped.findings.filter((x) => x.rule === 'outlier').map((x) => x.row)).toEqual(rows.slice(0, 3));
+  });
+});
+
+describe('fenceQuartiles: the quartiles from a column in pieces, as a worker computes them', () => {
+  it('matches R type 7 and type 6 on each sample cut into pieces with not-valid (NaN) cells, whatever the order of the pieces', () => {
+    for (const [name, sample] of Object.entries(oracle.samples)) {
+      // A not-valid cell (NaN) before every 4th value: the valid values stay R's sample.
+      const col = Float64Array.from(sample.x.flatMap((v, i) => (i % 4 === 0 ? [Number.NaN, v] : [v])));
+      const cut = Math.floor(col.length / 3);
+      const pieces = [col.subarray(0, cut), col.subarray(cut, 2 * cut), col.subarray(2 * cut)];
+      for (const type of ['type7', 'type6'] as const) {
+        const q = type === 'type7' ? 7 : 6;
+        // R 4.2.2 quantile(x, c(0.25, 0.75), type = 7 / 6), from test/reference/r-oracle.json.
+        const [q1, q3] = fenceQuartiles(pieces, q)!;
+        expect(q1, `${name} ${type}`).toBeCloseTo(sample.quantile[type]![P25]!, 10);
+        expect(q3, `${name} ${type}`).toBeCloseTo(sample.quantile[type]![P75]!, 10);
+        // The same bits from one piece, or from the pieces in another order (first principles:
+        // order statistics depend on the values only).
+        expect(fenceQuartiles([col], q)).toEqual([q1, q3]);
+        expect(fenceQuartiles([...pieces].reverse(), q, new Float64Array(col.length))).toEqual([q1, q3]);
+      }
+    }
+    expect(fenceQuartiles([Float64Array.of(Number.NaN)], 7)).toBeNull();
+  });
+
+  it('finalize uses quartiles it is given and computes the rest itself, to the same result', () => {
+    const s = oracle.samples.normal1000!;
+    const rows = s.x.map((v, i) => [String(i + 1), String(v)]);
+    const part = () => {
+      const p = createPass(cb, ['id', 'x'], {});
+      p.push({ count: rows.length, firstRow: 1, fields: rows.flat(), offsets: Uint32Array.from({ length: rows.length + 1 }, (_, k) => 2 * k), lines: new Uint32Array(rows.length) });
+      return p.finish();
+    };
+    const plain = finalize(part());
+    const x = cb.byName.get('x')!.index;
+    const given = finalize(part(), { quartiles: new Map([[x, fenceQuartiles([Float64Array.from(s.x)], 7)]]) });
+    expect(JSON.stringify(given.summary)).toBe(JSON.stringify(plain.summary));
+    expect(JSON.stringify(given.findings)).toBe(JSON.stringify(plain.findings));
+    // A wrong quartile pair given would show: the fences follow what is given.
+    const moved = finalize(part(), { quartiles: new Map([[x, [0, 0] as [number, number]]]) });
+    expect(moved.summary.fences!.x!.q1).toBe(0);
   });
 });
