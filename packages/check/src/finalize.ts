@@ -73,11 +73,16 @@ function sumInto(target: Float64Array, src: Float64Array): void {
  * shifted to global rows, sorted and capped per rule. With `release`, the parts' per-row arrays
  * (columns, row keys, ids, unique tables) are dropped from the parts as soon as they are copied,
  * so the merge needs memory for the result plus one column, not a second copy of every column;
- * the parts are then spent and must not be merged again.
+ * the parts are then spent and must not be merged again. `joined` holds retained columns (by
+ * item index) already concatenated with {@link joinColumn}; they are taken as they are.
  * Cost: O(rows x retained items + distinct unique values). Throws CodeweirError CW_USAGE when
  * `parts` is empty or the parts were made with different headers.
  */
-export function mergePartials(parts: PartialResult[], rowOffsets?: readonly number[], how: { release?: boolean } = {}): PartialResult {
+export function mergePartials(
+  parts: PartialResult[],
+  rowOffsets?: readonly number[],
+  how: { release?: boolean; joined?: ReadonlyMap<number, Float64Array | Uint16Array> } = {},
+): PartialResult {
   const release = how.release === true;
   if (parts.length === 0) throw new CodeweirError('CW_USAGE', 'mergePartials needs at least one partial result.');
   const first = parts[0]!;
@@ -160,7 +165,7 @@ export function mergePartials(parts: PartialResult[], rowOffsets?: readonly numb
 
   const columns = first.columns.map((c, i) => {
     if (c === null) return null;
-    const merged = concatTyped(parts.map((p) => p.columns[i]!));
+    const merged = how.joined?.get(i) ?? concatTyped(parts.map((p) => p.columns[i]!));
     if (release) for (const p of parts) p.columns[i] = null;
     return merged;
   });
@@ -216,6 +221,17 @@ function copyValid(col: Float64Array, out: Float64Array, at = 0): number {
     if (v === v) out[m++] = v; // NaN marks a cell that is not valid
   }
   return m;
+}
+
+/**
+ * Item `i`'s retained column of consecutive parts, concatenated in order (the column
+ * mergePartials makes); with `release` the parts' pieces are dropped once copied. Cost: O(rows).
+ */
+export function joinColumn(parts: PartialResult[], i: number, release = false): Float64Array | Uint16Array | null {
+  if (parts[0]!.columns[i] === null) return null;
+  const joined = concatTyped(parts.map((p) => p.columns[i]!));
+  if (release) for (const p of parts) p.columns[i] = null;
+  return joined;
 }
 
 /** Whether an item gets Tukey fences: interval or ratio, not text, with retained numeric values. */

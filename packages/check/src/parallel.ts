@@ -7,7 +7,8 @@
  * order (`mergePartials`) and finalized once, so the result is the one a single pass gives:
  * counts add, retained columns concatenate, duplicates across ranges resolve in row order.
  * While the calling thread merges, one worker computes the fence quartiles of the interval and
- * ratio items from copies of the parts' columns (the same selection finalize would run).
+ * ratio items (the same selection finalize would run) on their joined columns, moved to it and
+ * back without a copy.
  *
  * This module is also the worker's entry: started as a worker with the marker in
  * `workerData`, it compiles the codebook from its JSON source once and serves ranges.
@@ -20,7 +21,7 @@ import { openDelivery, openDeliveryRange, splitDelivery, type ByteRange, type Re
 import { CodeweirError, isCodeweirError, workerEntry, type ErrorCode } from '@codeweir/core';
 import type { QuantileType } from '@codeweir/stats';
 import { createPass, detachPartial, attachPartial, type DetachedPartial, type PartialResult, type Pass } from './pass.ts';
-import { mergePartials, finalize, fenceQuartiles, isFenced } from './finalize.ts';
+import { mergePartials, finalize, fenceQuartiles, isFenced, joinColumn } from './finalize.ts';
 import { normalizeCheckOptions, type CheckOptions, type CheckOptionsInput } from './options.ts';
 import { checkDelivery } from './check.ts';
 import type { CheckResult } from './types.ts';
@@ -59,9 +60,9 @@ type FromWorker =
   | { index: number; partial: DetachedPartial }
   | { index: number; error: { code?: ErrorCode; message: string; codeweir: boolean } }
   | { done: true }
-  | { quartiles: Array<[number, number] | null> };
-/** After its ranges, a worker computes fence quartiles (each item's column in pieces, one per part) or stops. */
-type AfterRanges = { fences: Float64Array[][]; quantileType: QuantileType } | { stop: true };
+  | { quartiles: Array<[number, number] | null>; columns: Float64Array[] };
+/** After its ranges, a worker computes the fence quartiles of some joined columns (and hands them back) or stops. */
+type AfterRanges = { fences: Float64Array[]; quantileType: QuantileType } | { stop: true };
 
 function readOptionsOf(o: CheckOptions): ReadOptions {
   return { delimiter: o.delimiter, encoding: o.encoding, maxFieldBytes: o.maxFieldBytes };
@@ -196,6 +197,7 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
   } catch (e) {
     fail(e as Error);
   }
+  held.pass = undefined;
   await Promise.all(served);
   if (failure) {
     await Promise.all(workers.map((w) => w.terminate()));
@@ -203,25 +205,34 @@ export async function checkFileParallel(path: string, codebook: CompiledCodebook
     if (isCodeweirError(failure)) return single();
     throw failure;
   }
-  // The fence quartiles of every fenced item on one worker (from copies of the parts' columns),
-  // while this thread merges; the other workers stop. Should that worker fail, finalize
-  // computes the quartiles itself.
+  // The fence quartiles of the interval and ratio items on one worker while this thread merges
+  // the rest: their columns are joined first and moved (transferred, not copied) to the worker,
+  // which sends them back with the quartiles. The other workers stop.
   const finished = partials as PartialResult[];
   const fenced = codebook.items.filter((item) => isFenced(item, finished[0]!.columns[item.index])).map((item) => item.index);
   const helper = fenced.length > 0 ? workers[0] : undefined;
-  const quartiles = new Promise<Map<number, [number, number] | null> | undefined>((resolve) => {
+  for (const w of workers) if (w !== helper) w.postMessage({ stop: true } satisfies AfterRanges);
+  const joined = new Map(fenced.map((i) => [i, joinColumn(finished, i, true) as Float64Array]));
+  const back = new Promise<Extract<FromWorker, { quartiles: unknown }> | undefined>((resolve) => {
     if (helper === undefined) return resolve(undefined);
     helper.on('message', (m: FromWorker) => {
-      if ('quartiles' in m) resolve(new Map(fenced.map((i, k) => [i, m.quartiles[k]!])));
+      if ('quartiles' in m) resolve(m);
     });
     helper.once('exit', () => resolve(undefined));
     helper.once('error', () => resolve(undefined));
-    helper.postMessage({ fences: fenced.map((i) => finished.map((p) => p.columns[i] as Float64Array)), quantileType: options.quantileType } satisfies AfterRanges);
+    const columns = fenced.map((i) => joined.get(i)!);
+    helper.postMessage({ fences: columns, quantileType: options.quantileType } satisfies AfterRanges, columns.map((c) => c.buffer as ArrayBuffer));
   });
-  for (const w of workers) if (w !== helper) w.postMessage({ stop: true } satisfies AfterRanges);
-  const merged = mergePartials(finished, undefined, { release: true });
+  const merged = mergePartials(finished, undefined, { release: true, joined });
   merged.file = delivery.file;
-  return finalize(merged, { quartiles: await quartiles });
+  const answer = await back;
+  if (helper !== undefined) {
+    // The columns went to the worker; without its answer they are gone, and one pass from the
+    // start gives the result instead.
+    if (answer === undefined) return single();
+    fenced.forEach((i, k) => (merged.columns[i] = answer.columns[k]!));
+  }
+  return finalize(merged, { quartiles: answer && new Map(fenced.map((i, k) => [i, answer.quartiles[k]!])) });
 }
 
 async function serve(init: WorkerInit): Promise<void> {
@@ -247,12 +258,15 @@ async function serve(init: WorkerInit): Promise<void> {
         port.postMessage({ index, error: errorOf(e) } satisfies FromWorker);
       }
     }
+    // The pass's fresh accumulators and batch scratch are not needed any more.
+    held.pass = undefined;
     port.postMessage({ done: true } satisfies FromWorker);
     // Then, at most once: the fence quartiles of some items, from the parts' columns, while the
     // calling thread merges; or word that there is nothing more to do.
     port.once('message', (m: AfterRanges) => {
       if ('fences' in m) {
-        port.postMessage({ quartiles: m.fences.map((pieces) => fenceQuartiles(pieces, m.quantileType)) } satisfies FromWorker);
+        const quartiles = m.fences.map((col) => fenceQuartiles([col], m.quantileType));
+        port.postMessage({ quartiles, columns: m.fences } satisfies FromWorker, m.fences.map((c) => c.buffer as ArrayBuffer));
       }
       port.close();
     });
