@@ -163,12 +163,8 @@ export function mergePartials(
     return { item: g0.item, keys, tallies, rowKeys: rowKeyParts.length ? concatTyped(rowKeyParts) : new Uint32Array(0) };
   });
 
-  const columns = first.columns.map((c, i) => {
-    if (c === null) return null;
-    const merged = how.joined?.get(i) ?? concatTyped(parts.map((p) => p.columns[i]!));
-    if (release) for (const p of parts) p.columns[i] = null;
-    return merged;
-  });
+  // A column joined beforehand released its pieces then.
+  const columns = first.columns.map((_, i) => how.joined?.get(i) ?? joinColumn(parts, i, release));
   let ids: IdColumn | null = null;
   if (first.ids) {
     const odd = new Map<number, string>();
@@ -213,9 +209,9 @@ function idOfRow(ids: IdColumn | null, row: number): string {
   return String(v);
 }
 
-/** Copies the valid (non-NaN) values of `col` to `out` from `at`; returns where they end. Cost: O(n). */
-function copyValid(col: Float64Array, out: Float64Array, at = 0): number {
-  let m = at;
+/** Copies the valid (non-NaN) values of `col` to the start of `out`; returns how many. Cost: O(n). */
+function copyValid(col: Float64Array, out: Float64Array): number {
+  let m = 0;
   for (let r = 0; r < col.length; r++) {
     const v = col[r]!;
     if (v === v) out[m++] = v; // NaN marks a cell that is not valid
@@ -241,17 +237,14 @@ export function isFenced(item: CompiledItem, column: unknown): column is Float64
 
 /**
  * The quartiles (q1, q3) by which an item's Tukey fences are set, of the valid (non-NaN) values
- * of one column given in one or more pieces (the parts of a split pass, in any order); null when
- * no value is valid. `scratch`, when at least as long as the pieces together, is used for the
- * copy of the valid values.
+ * of its column; null when no value is valid. `scratch`, when at least as long as the column,
+ * is used for the copy of the valid values.
  * Convention: Hyndman-Fan type `type`, identical to quantileSorted of the sorted valid values
  * (selection, not a sort). Cost: O(n) expected, one n-value copy. Throws nothing.
  */
-export function fenceQuartiles(pieces: readonly Float64Array[], type: QuantileType, scratch?: Float64Array): [number, number] | null {
-  const n = pieces.reduce((s, c) => s + c.length, 0);
-  const buf = scratch !== undefined && scratch.length >= n ? scratch : new Float64Array(n);
-  let m = 0;
-  for (const c of pieces) m = copyValid(c, buf, m);
+export function fenceQuartiles(col: Float64Array, type: QuantileType, scratch?: Float64Array): [number, number] | null {
+  const buf = scratch !== undefined && scratch.length >= col.length ? scratch : new Float64Array(col.length);
+  const m = copyValid(col, buf);
   if (m === 0) return null;
   return quantilesInPlace(buf.subarray(0, m), [0.25, 0.75], type) as [number, number];
 }
@@ -348,7 +341,7 @@ export function finalize(p: PartialResult, given?: { quartiles?: ReadonlyMap<num
     let quartiles = given?.quartiles?.get(item.index);
     if (quartiles === undefined) {
       if (scratch === null || scratch.length < col.length) scratch = new Float64Array(col.length);
-      quartiles = fenceQuartiles([col], options.quantileType, scratch);
+      quartiles = fenceQuartiles(col, options.quantileType, scratch);
     }
     if (quartiles === null) continue;
     const [q1, q3] = quartiles;

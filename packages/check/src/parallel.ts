@@ -261,11 +261,11 @@ async function serve(init: WorkerInit): Promise<void> {
     // The pass's fresh accumulators and batch scratch are not needed any more.
     held.pass = undefined;
     port.postMessage({ done: true } satisfies FromWorker);
-    // Then, at most once: the fence quartiles of some items, from the parts' columns, while the
-    // calling thread merges; or word that there is nothing more to do.
+    // Then, at most once: the fence quartiles of the joined columns it is sent (handed back with
+    // them) while the calling thread merges; or word that there is nothing more to do.
     port.once('message', (m: AfterRanges) => {
       if ('fences' in m) {
-        const quartiles = m.fences.map((col) => fenceQuartiles([col], m.quantileType));
+        const quartiles = m.fences.map((col) => fenceQuartiles(col, m.quantileType));
         port.postMessage({ quartiles, columns: m.fences } satisfies FromWorker, m.fences.map((c) => c.buffer as ArrayBuffer));
       }
       port.close();

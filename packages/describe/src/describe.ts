@@ -3,7 +3,7 @@ import type { CheckResult, ItemColumn } from '@codeweir/check';
 import type { DescribeResult, ItemDescription } from './types.ts';
 import { normalizeDescribeOptions, type DescribeOptions, type DescribeOptionsInput, type NormalizedDescribeOptions } from './options.ts';
 import { conventionsFor, type ConventionKey } from './conventions.ts';
-import { resolveWeight, type WeightColumn } from './weights.ts';
+import { resolveWeight, weightsFor, type WeightColumn } from './weights.ts';
 import { describeCategorical, type Category } from './categorical.ts';
 import { describeContinuous } from './continuous.ts';
 import { describePairs } from './pairs.ts';
@@ -64,8 +64,7 @@ export function assembleDescription(
     if (item.role === 'id') continue;
     const col = store.columns[item.name];
     if (!col) continue;
-    const w = weight && weight.item !== item.name ? weight.weights : undefined;
-    const { description, conventions } = describeOne(item, col, w);
+    const { description, conventions } = describeOne(item, col, weightsFor(weight, item.name));
     for (const c of conventions) used.add(c);
     items[item.name] = description;
   }

@@ -16,7 +16,7 @@ import type { CheckResult, ItemColumn } from '@codeweir/check';
 import { workerEntry } from '@codeweir/core';
 import type { DescribeResult } from './types.ts';
 import { normalizeDescribeOptions, type DescribeOptions, type DescribeOptionsInput, type NormalizedDescribeOptions } from './options.ts';
-import { resolveWeight } from './weights.ts';
+import { resolveWeight, weightsFor } from './weights.ts';
 import { describePairs } from './pairs.ts';
 import { assembleDescription, describeItem, isContinuous, type ItemPart } from './describe.ts';
 
@@ -70,8 +70,8 @@ function tallyOnly(name: string, tally: Job['items'][number]['tally']): CheckRes
  * Cost: describe's work, its sorts shared among the threads; each worker costs a start-up (a
  * few hundred milliseconds, overlapped with the calling thread's own items). The interval and
  * ratio columns (and the weights) are copied once into SharedArrayBuffers that every worker
- * reads: 8 bytes per row per such item, however many workers there are. Deliveries under `minRows` rows, or with fewer than two such items,
- * are described on the calling thread. Throws what describe throws (CW_USAGE for bad options),
+ * reads: 8 bytes per row per such item, however many workers there are. Deliveries under
+ * `minRows` rows, or with fewer than two such items, are described on the calling thread. Throws what describe throws (CW_USAGE for bad options),
  * before any thread starts. A worker that fails leaves its items to the calling thread.
  * @example const d = await describeParallel(checkResult, codebook, { weight: 'w' }, { threads: 2 });
  */
@@ -89,17 +89,13 @@ export async function describeParallel(
   const heavy = codebook.items.filter((item) => isContinuous(item, store.columns[item.name]));
   const threads = how.threads ?? availableParallelism();
   const parts = new Map<string, ItemPart>();
-  const one = (name: string): ItemPart => {
-    const item = codebook.byName.get(name)!;
-    const w = weight && weight.item !== name ? weight.weights : undefined;
-    return describeItem(item, store.columns[name]!, result, opts, w);
-  };
+  const one = (name: string): ItemPart => describeItem(codebook.byName.get(name)!, store.columns[name]!, result, opts, weightsFor(weight, name));
   if (threads > 1 && heavy.length >= 2 && store.rows >= (how.minRows ?? DEFAULT_MIN_ROWS)) {
     const next = new Int32Array(new SharedArrayBuffer(4));
     const job: Job = {
       items: heavy.map((item) => {
         const col = store.columns[item.name] as Extract<ItemColumn, { kind: 'numeric' }>;
-        return { name: item.name, values: shared(col.values), tally: result.summary.items[item.name], weighted: weight !== undefined && weight.item !== item.name };
+        return { name: item.name, values: shared(col.values), tally: result.summary.items[item.name], weighted: weightsFor(weight, item.name) !== undefined };
       }),
       weights: weight ? shared(weight.weights) : undefined,
       opts,
@@ -135,7 +131,7 @@ export async function describeParallel(
     }
     // The other items while the workers finish.
     for (const item of codebook.items) {
-      if (item.role === 'id' || parts.has(item.name) || heavy.includes(item) || !store.columns[item.name]) continue;
+      if (item.role === 'id' || heavy.includes(item) || !store.columns[item.name]) continue;
       parts.set(item.name, one(item.name));
     }
     await Promise.all(served);

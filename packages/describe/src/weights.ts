@@ -9,6 +9,11 @@ export interface WeightColumn {
   weights: Float64Array;
 }
 
+/** The weights an item is described with: none for the weight item itself. Cost: O(1). */
+export function weightsFor(weight: WeightColumn | undefined, item: string): Float64Array | undefined {
+  return weight && weight.item !== item ? weight.weights : undefined;
+}
+
 /**
  * Resolves the weight item: the `weight` option when given, else the codebook's weight item
  * when the delivery has its column, else none. Negative weights become NaN (excluded).
