@@ -16,6 +16,9 @@ export { pearsonChiSquare, chiSquareUpperTail, type ChiSquareTest } from './chi-
 export { cramersV } from './cramers-v.ts';
 export { phi } from './phi.ts';
 export { goodmanKruskalGamma } from './gamma.ts';
+// Comparing two samples (drift between deliveries)
+export { ksTwoSample, ksTwoSampleSorted, kolmogorovUpperTail, KS_EXACT_BELOW, type KsTwoSample, type KsOptions } from './ks-two-sample.ts';
+export { psiFromCounts, psiSorted, psiCutPoints, PSI_EMPTY_SHARE, PSI_BINS, type Psi } from './psi.ts';
 // Group comparisons
 export { etaSquared } from './eta-squared.ts';
 // Shape and spread
