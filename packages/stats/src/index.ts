@@ -33,3 +33,8 @@ export { histogramSorted, MAX_BINS, type Histogram } from './histogram.ts';
 // Grouped and weighted data
 export { groupedMedian, classBoundaries, type GroupedClass, type GroupedMedianResult } from './grouped-median.ts';
 export { weightedMean, weightedSd, weightedMoments, weightedQuantile, weightedQuantiles } from './weighted.ts';
+// Complex samples: design-based estimates
+export { resolveSampleDesign, designDegreesOfFreedom, type SampleDesign, type SampleDesignInput, type SingleClusterRule } from './sample-design.ts';
+export { designMean, designProportions, type DesignEstimate, type DesignBase, type Domain } from './taylor-variance.ts';
+export { designEffect, type DesignEffect, type DeffBasis } from './design-effect.ts';
+export { meanInterval, logitInterval, type ConfidenceInterval } from './design-interval.ts';
