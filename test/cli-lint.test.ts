@@ -38,7 +38,7 @@ describe('codeweir lint', () => {
     // Two-space JSON.stringify puts "spare" on line 12: the brace, codebook, version, title,
     // missingSets and std lines, then the std entry's four lines and the closing bracket.
     expect(r.out.trimEnd().split('\n')).toEqual([
-      '/missingSets/spare: warning: missing set "spare" is not used by any item (line 12, column 5)',
+      'ok.json:12:5: warning: missing set "spare" is not used by any item [unused-missing-set]',
       'ok.json: valid codebook (1 warning).',
     ]);
   });
@@ -48,9 +48,10 @@ describe('codeweir lint', () => {
     expect(r.code).toBe(1);
     const lines = r.out.trimEnd().split('\n');
     expect(lines).toHaveLength(4);
-    expect(lines[0]).toMatch(/^\/missingSets\/spare: warning: /);
-    expect(lines[1]).toMatch(/^\/items\/1\/codes\/1\/code: code 1 of item "team" is already declared/);
-    expect(lines[2]).toMatch(/^\/items\/2\/askedWhen: unknown item "tema" at character 1 \(did you mean "team"\?\)/);
+    // file:line:column, then the severity, then the message naming the item, then the code.
+    expect(lines[0]).toMatch(/^broken\.json:12:5: warning: missing set "spare" /);
+    expect(lines[1]).toMatch(/^broken\.json:\d+:\d+: error: code 1 of item "team" is already declared .* \[duplicate-code\]$/);
+    expect(lines[2]).toMatch(/^broken\.json:\d+:\d+: error: item "km": unknown item "tema" at character 1 \(did you mean "team"\?\) \[cel-unknown-item\]$/);
     expect(lines[3]).toBe('broken.json: invalid codebook: 2 errors, 1 warning.');
   });
 
@@ -65,6 +66,7 @@ describe('codeweir lint', () => {
       ['duplicate-code', '/items/1/codes/1/code', 'error'],
       ['cel-unknown-item', '/items/2/askedWhen', 'error'],
     ]);
+    expect(doc.problems.map((p: any) => p.item)).toEqual([undefined, 'team', 'km']);
     for (const p of doc.problems) {
       expect(Object.keys(p).slice(0, 4)).toEqual(['path', 'code', 'severity', 'message']);
       expect(typeof p.line).toBe('number');
@@ -72,6 +74,18 @@ describe('codeweir lint', () => {
     const ok = await cli(['lint', 'ok.json', '--json'], dir);
     expect(ok.code).toBe(0);
     expect(JSON.parse(ok.out).ok).toBe(true);
+  });
+
+  it('--strict counts warnings as errors', async () => {
+    const r = await cli(['lint', 'ok.json', '--strict'], dir);
+    expect(r.code).toBe(1);
+    expect(r.out.trimEnd().split('\n')).toEqual([
+      'ok.json:12:5: error: missing set "spare" is not used by any item [unused-missing-set]',
+      'ok.json: invalid codebook: 0 errors, 1 warning (--strict: warnings count as errors).',
+    ]);
+    const j = await cli(['lint', 'ok.json', '--strict', '--json'], dir);
+    expect(j.code).toBe(1);
+    expect(JSON.parse(j.out).ok).toBe(false);
   });
 
   it('a JSON syntax error exits 1 with its line and column', async () => {

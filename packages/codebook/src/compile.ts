@@ -17,20 +17,33 @@ import { codeKeys } from './numbers.ts';
 import { analyseCodebook } from './checks/index.ts';
 import { hasErrors } from './problems.ts';
 import { pointer } from './json-scan.ts';
+import { codebookLanguages, labelText, resolveLabels } from './labels.ts';
+
+/** How a codebook is compiled: the language its labels are resolved to. */
+export interface CompileOptions {
+  /** BCP 47 tag; default the first declared language (or each label's first entry). */
+  lang?: string;
+}
 
 /**
  * Builds the compiled codebook from a codebook whose meaning checks found no error. `expressions`
  * maps the JSON pointer of each CEL field (`/items/3/askedWhen`, `/rules/0/test`) to its
- * compiled expression. Internal: callers use {@link compileCodebook} or `parseCodebook`.
+ * compiled expression. Labels are resolved to plain strings in `options.lang` (see
+ * `labels.ts`), and `source` is that resolved codebook. Internal: callers use
+ * {@link compileCodebook} or `parseCodebook`.
  */
-export function buildCompiled(cb: Codebook, expressions: ReadonlyMap<string, CompiledExpression>, file?: string): CompiledCodebook {
+export function buildCompiled(given: Codebook, expressions: ReadonlyMap<string, CompiledExpression>, file?: string, options: CompileOptions = {}): CompiledCodebook {
+  const languages = codebookLanguages(given);
+  // Labels become plain strings in the chosen language here, so that every consumer (and every
+  // worker thread, which compiles `source` again) sees strings.
+  const cb = resolveLabels(given, options.lang);
   const items: CompiledItem[] = cb.items.map((it, index) => {
     const numeric = it.type === 'integer' || it.type === 'decimal';
     const codes: CompiledCode[] = (it.codes ?? []).map((c, i) => ({
       index: i,
       code: c.code,
       text: String(c.code),
-      label: c.label,
+      label: labelText(c.label, undefined),
       ...(c.bin ? { bin: { min: c.bin.min, max: c.bin.max ?? null } } : {}),
     }));
     const codeByText = new Map<string, number>();
@@ -39,7 +52,7 @@ export function buildCompiled(cb: Codebook, expressions: ReadonlyMap<string, Com
       code: m.code,
       text: String(m.code),
       kind: m.kind,
-      ...(m.label !== undefined ? { label: m.label } : {}),
+      ...(m.label !== undefined ? { label: labelText(m.label, undefined) } : {}),
     }));
     const missingByText = new Map<string, CompiledMissingCode>();
     for (const m of missing) for (const k of codeKeys(m.code, numeric)) if (!missingByText.has(k)) missingByText.set(k, m);
@@ -50,7 +63,7 @@ export function buildCompiled(cb: Codebook, expressions: ReadonlyMap<string, Com
     const item: CompiledItem = {
       index,
       name: it.name,
-      label: it.label,
+      label: labelText(it.label, undefined),
       role,
       type: it.type,
       codes,
@@ -68,6 +81,7 @@ export function buildCompiled(cb: Codebook, expressions: ReadonlyMap<string, Com
     if (it.expect) item.expect = { ...it.expect };
     if (it.pattern !== undefined) item.pattern = compilePattern(it.pattern);
     if (askedWhen) item.askedWhen = askedWhen;
+    if (it.confidential) item.confidential = true;
     return item;
   });
   const rules: CompiledRule[] = (cb.rules ?? []).map((r, i) => {
@@ -90,22 +104,29 @@ export function buildCompiled(cb: Codebook, expressions: ReadonlyMap<string, Com
   if (idItem) out.idItem = idItem;
   if (weightItem) out.weightItem = weightItem;
   if (file !== undefined) out.file = file;
+  if (cb.design) out.design = { ...cb.design };
+  if (cb.disclosure?.minCell !== undefined) out.minCell = cb.disclosure.minCell;
+  if (languages.length > 0) {
+    out.languages = languages;
+    out.language = options.lang ?? languages[0]!;
+  }
   return out;
 }
 
 /**
  * Runs the meaning checks on a schema-valid codebook and compiles it: items by name, missing
  * sets resolved, code tables keyed by cell text (see `numbers.ts` for how numeric cells match),
- * bins sorted by `min`, ordinal order as declared, CEL compiled once, patterns anchored.
+ * bins sorted by `min`, ordinal order as declared, CEL compiled once, patterns anchored,
+ * labels resolved to `options.lang`.
  * Cost: linear in the codebook plus one CEL parse and type check per expression.
  * Throws CodeweirError CW_CODEBOOK_INVALID (exit code 1) naming the first error's path.
  */
-export function compileCodebook(cb: Codebook, file?: string): CompiledCodebook {
+export function compileCodebook(cb: Codebook, file?: string, options: CompileOptions = {}): CompiledCodebook {
   const { problems, expressions } = analyseCodebook(cb);
   if (hasErrors(problems)) {
     const first = problems.find((p) => p.severity === 'error')!;
     const where = file ? `${file} ${first.path}` : first.path || '/';
     throw new CodeweirError('CW_CODEBOOK_INVALID', `Codebook is invalid: ${where}: ${first.message}.`, { path: first.path, ...(file ? { file } : {}) }, 1);
   }
-  return buildCompiled(cb, expressions, file);
+  return buildCompiled(cb, expressions, file, options);
 }

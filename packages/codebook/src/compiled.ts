@@ -95,6 +95,8 @@ export interface CompiledItem {
   /** Routing: the item is asked only where this is true. */
   askedWhen?: CompiledExpression;
   unique: boolean;
+  /** The codebook marks the item `confidential: true`: its values stay out of reports and exports. */
+  confidential?: true;
 }
 
 export interface CompiledRule {
@@ -120,6 +122,22 @@ export interface CompiledCodebook {
   groupItems: readonly CompiledItem[];
   weightItem?: CompiledItem;
   rules: readonly CompiledRule[];
+  /** The sample design as the codebook gives it (item names), when it does. */
+  design?: CompiledDesign;
+  /** Disclosure control: counts below this are suppressed in reports and exports (codebook `disclosure.minCell`). */
+  minCell?: number;
+  /** Languages of the labels (declared, or found in label objects); absent when every label is one string. */
+  languages?: readonly string[];
+  /** The language the labels were resolved to (present with `languages`). */
+  language?: string;
+}
+
+/** The sample design: item names of the weight, strata, cluster and finite population correction. */
+export interface CompiledDesign {
+  weight?: string;
+  strata?: string;
+  cluster?: string;
+  fpc?: string;
 }
 
 export type Severity = 'error' | 'warning';
@@ -132,6 +150,8 @@ export interface Problem {
   message: string;
   line?: number;
   column?: number;
+  /** The item the problem is about (its name), or the rule id for a problem inside a rule. */
+  item?: string;
 }
 
 export type LoadResult =

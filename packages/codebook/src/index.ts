@@ -1,6 +1,9 @@
 export * from './compiled.ts';
 export * from './schema.ts';
 export { parseCodebook, loadCodebook, loadCodebookOrThrow } from './load.ts';
+export type { LoadOptions } from './load.ts';
+export type { CompileOptions } from './compile.ts';
+export { codebookLanguages, labelText, labelHas, resolveLabels } from './labels.ts';
 export { compileCodebook, buildCompiled } from './compile.ts';
 export { compilePattern, resolveMissing } from './resolve.ts';
 export { analyseCodebook, CHECKS } from './checks/index.ts';

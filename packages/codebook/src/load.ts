@@ -10,7 +10,38 @@ import { validateWithShippedSchema } from './json-schema.ts';
 import { lineColumn, scanJson } from './json-scan.ts';
 import { ajvErrorsToProblems, zodIssuesToProblems } from './schema-problems.ts';
 import { analyseCodebook } from './checks/index.ts';
-import { buildCompiled } from './compile.ts';
+import { buildCompiled, type CompileOptions } from './compile.ts';
+import { codebookLanguages } from './labels.ts';
+
+/** How a codebook is loaded. */
+export interface LoadOptions extends CompileOptions {
+  /** Warnings count as errors: a codebook with any problem is not ok. */
+  strict?: boolean;
+}
+
+/**
+ * What a problem at `path` is about, read from the parsed JSON: the item's name for a path
+ * under `/items/<i>`, the rule's id under `/rules/<i>`. Undefined elsewhere.
+ */
+function subjectOf(data: unknown, path: string): { item: string; words: string } | undefined {
+  const m = /^\/(items|rules)\/(\d+)(?:\/|$)/.exec(path);
+  if (!m || data === null || typeof data !== 'object') return undefined;
+  const list = (data as Record<string, unknown>)[m[1]!];
+  const entry = Array.isArray(list) ? (list[Number(m[2])] as Record<string, unknown> | undefined) : undefined;
+  const key = m[1] === 'items' ? entry?.name : entry?.id;
+  if (typeof key !== 'string' || key === '') {
+    return m[1] === 'items' ? { item: `item ${m[2]}`, words: `item ${m[2]}` } : { item: `rule ${m[2]}`, words: `rule ${m[2]}` };
+  }
+  return { item: key, words: `${m[1] === 'items' ? 'item' : 'rule'} ${JSON.stringify(key)}` };
+}
+
+/** The problem with `item` set and, unless its message names it already, the subject in front. */
+function named(p: Problem, data: unknown): Problem {
+  const s = subjectOf(data, p.path);
+  if (!s) return p;
+  const message = p.message.includes(JSON.stringify(s.item)) ? p.message : `${s.words}: ${p.message}`;
+  return { ...p, message, item: s.item };
+}
 import { hasErrors, problem, type CodebookProblem } from './problems.ts';
 
 /** Offset of the deepest recorded ancestor of `path` (a missing field points at its object). */
@@ -38,16 +69,18 @@ function charOffset(src: string, valueStarts: ReadonlyMap<string, number>, p: Pr
 
 /**
  * Parses and checks codebook text. Returns `ok: true` with the compiled codebook when no
- * problem is at error severity (warnings are returned alongside), else `ok: false` with every
- * problem found. Problems carry line and column (1-based) of the value they point at, and are
- * ordered by position in the file. A UTF-8 byte-order mark is accepted.
+ * problem is at error severity (warnings are returned alongside; with `strict` no problem at
+ * all), else `ok: false` with every problem found. Problems carry line and column (1-based) of
+ * the value they point at, `item` (the item's name, or the rule id) where they lie inside an
+ * item or a rule, a message that names that item or rule, and are ordered by position in the
+ * file. A UTF-8 byte-order mark is accepted. Labels are resolved to `options.lang`.
  *
  * Stages: JSON syntax (`json-syntax`, `duplicate-key`); schema, zod and the shipped JSON Schema
  * via ajv (unknown fields with a "did you mean" hint); meaning checks (see `checks/`). Meaning
  * checks run only on a schema-valid codebook.
  * Cost: linear in the text plus one CEL parse and type check per expression. Never throws.
  */
-export function parseCodebook(text: string, file?: string): LoadResult {
+export function parseCodebook(text: string, file?: string, options: LoadOptions = {}): LoadResult {
   const src = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
   const scan = scanJson(src);
   if (scan.error) {
@@ -72,12 +105,13 @@ export function parseCodebook(text: string, file?: string): LoadResult {
   } else {
     const analysis = analyseCodebook(zod.data);
     problems.push(...analysis.problems);
-    result = hasErrors(problems) ? { ok: false, problems } : { ok: true, codebook: buildCompiled(zod.data, analysis.expressions, file), problems };
+    const refused = hasErrors(problems) || (options.strict === true && problems.length > 0);
+    result = refused ? { ok: false, problems } : { ok: true, codebook: buildCompiled(zod.data, analysis.expressions, file, options.lang === undefined ? {} : { lang: options.lang }), problems };
   }
   const located = result.problems.map((p) => {
     const offset = offsetOf(scan.positions, p.path);
     const at = charOffset(src, scan.valueStarts, p) ?? offset;
-    const { charIndex: _c, ...rest } = p as CodebookProblem;
+    const { charIndex: _c, ...rest } = named(p, data) as CodebookProblem;
     return { problem: at === undefined ? rest : { ...rest, ...lineColumn(src, at) }, offset: offset ?? -1 };
   });
   located.sort((a, b) => a.offset - b.offset);
@@ -91,7 +125,7 @@ export function parseCodebook(text: string, file?: string): LoadResult {
  * Throws CodeweirError CW_FILE_NOT_FOUND, CW_FILE_IS_DIRECTORY or CW_FILE_UNREADABLE (exit
  * code 2) when the file cannot be read; an invalid codebook is not thrown but returned.
  */
-export async function loadCodebook(path: string): Promise<LoadResult> {
+export async function loadCodebook(path: string, options: LoadOptions = {}): Promise<LoadResult> {
   let text: string;
   try {
     const st = await stat(path);
@@ -106,21 +140,31 @@ export async function loadCodebook(path: string): Promise<LoadResult> {
     if (code === 'EISDIR') throw new CodeweirError('CW_FILE_IS_DIRECTORY', `Codebook ${path} is a directory; name a codebook file.`, { file: path, cause: e });
     throw new CodeweirError('CW_FILE_UNREADABLE', `Codebook ${path} cannot be read (${code ?? (e as Error).message}); check its permissions.`, { file: path, cause: e });
   }
-  return parseCodebook(text, path);
+  return parseCodebook(text, path, options);
 }
 
 /**
- * Loads a codebook that must be valid: resolves to the compiled codebook (warnings dropped).
+ * Loads a codebook that must be valid: resolves to the compiled codebook (warnings dropped;
+ * with `strict` a warning refuses it too), its labels in `options.lang`.
  * Throws CodeweirError CW_CODEBOOK_INVALID (exit code 1) naming the file, the first error's
- * JSON pointer, line and column, and its message; or the file errors of {@link loadCodebook}.
+ * JSON pointer, line and column, and its message; CW_USAGE (exit code 2) when `lang` is not a
+ * language of a codebook whose labels have languages; or the file errors of {@link loadCodebook}.
  */
-export async function loadCodebookOrThrow(path: string): Promise<CompiledCodebook> {
-  const r = await loadCodebook(path);
-  if (r.ok) return r.codebook;
+export async function loadCodebookOrThrow(path: string, options: LoadOptions = {}): Promise<CompiledCodebook> {
+  const r = await loadCodebook(path, options);
+  if (r.ok) {
+    const langs = codebookLanguages(r.codebook.source as Parameters<typeof codebookLanguages>[0]);
+    const lang = options.lang;
+    if (lang !== undefined && langs.length > 0 && !langs.some((l) => l.toLowerCase() === lang.toLowerCase())) {
+      throw new CodeweirError('CW_USAGE', `--lang ${lang}: codebook ${path} gives its labels in ${langs.join(', ')}; choose one of those.`, { file: path });
+    }
+    return r.codebook;
+  }
   const first = r.problems.find((p) => p.severity === 'error') ?? r.problems[0]!;
+  const strictly = first.severity === 'warning' ? ' (with --strict a warning counts as an error)' : '';
   throw new CodeweirError(
     'CW_CODEBOOK_INVALID',
-    `Codebook ${path} is invalid at ${first.path || '/'}: ${first.message}; run codeweir lint ${path} for every problem.`,
+    `Codebook ${path} is invalid at ${first.path || '/'}: ${first.message}${strictly}; run codeweir lint ${path} for every problem.`,
     { file: path, path: first.path, ...(first.line !== undefined ? { line: first.line, column: first.column } : {}) },
     1,
   );

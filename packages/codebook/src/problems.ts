@@ -36,7 +36,8 @@ export const PROBLEM_SEVERITY = {
   'unused-missing-set': 'warning',
   'duplicate-missing-code': 'error',
   'missing-collides': 'error',
-  'missing-in-range': 'error',
+  'missing-in-range': 'warning',
+  'missing-in-bin': 'error',
   // Bounds
   'range-type': 'error',
   'range-inverted': 'error',
@@ -56,6 +57,10 @@ export const PROBLEM_SEVERITY = {
   'asked-when-cycle': 'error',
   'cel-bad-date': 'error',
   'duplicate-rule-id': 'error',
+  // Labels and languages
+  'language-tag': 'error',
+  'label-language-missing': 'warning',
+  'label-language-undeclared': 'warning',
 } as const satisfies Record<string, Severity>;
 
 export type ProblemCode = keyof typeof PROBLEM_SEVERITY;

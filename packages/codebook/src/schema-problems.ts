@@ -122,7 +122,9 @@ export function zodIssuesToProblems(issues: readonly z.core.$ZodIssue[], data: u
         const branches = issue.errors;
         const typeOnly = (b: readonly z.core.$ZodIssue[]) => b.length === 1 && b[0]!.code === 'invalid_type' && b[0]!.path.length === 0;
         const deeper = branches.filter((b) => !typeOnly(b));
-        if (deeper.length > 0) {
+        if (value === undefined) {
+          out.push(problem('missing-field', here, `required field "${String(path[path.length - 1])}" is missing`));
+        } else if (deeper.length > 0) {
           const best = deeper.reduce((a, b) => (b.length < a.length ? b : a));
           out.push(...zodIssuesToProblems(best, data, path));
         } else {

@@ -23,6 +23,25 @@ export const CodeValueSchema = z
   .union([z.number(), z.string().min(1)])
   .describe('A code as it appears in a delivery cell: a number or a non-empty string.');
 
+/**
+ * A BCP 47 language tag as written in a codebook (`en`, `fr`, `pt-BR`, `sr-Latn`): letters,
+ * digits and hyphens in subtags of 1 to 8 characters. Lint checks well-formedness further with
+ * `Intl.getCanonicalLocales`.
+ */
+export const LanguageTagSchema = z
+  .string()
+  .regex(/^[A-Za-z]{2,8}(?:-[A-Za-z0-9]{1,8})*$/)
+  .describe('A BCP 47 language tag such as en, fr or pt-BR.');
+
+/**
+ * A label: one string, or one string per language keyed by BCP 47 tag
+ * (`{ "en": "Household size", "fr": "Taille du ménage" }`). A plain string is the same in every
+ * language.
+ */
+export const LabelSchema = z
+  .union([z.string(), z.record(LanguageTagSchema, z.string()).refine((o) => Object.keys(o).length > 0, 'a label object needs at least one language').meta({ minProperties: 1 })])
+  .meta({ id: 'Label', description: 'One string, or an object with one string per language keyed by BCP 47 tag (en, fr, pt-BR).' });
+
 export const BoundsSchema = z
   .strictObject({
     min: z.number().optional().describe('Smallest allowed value (inclusive).'),
@@ -40,7 +59,7 @@ export const BinSchema = z
 export const CodeSchema = z
   .strictObject({
     code: CodeValueSchema,
-    label: z.string().describe('What the code means.'),
+    label: LabelSchema.describe('What the code means.'),
     bin: BinSchema.optional(),
   })
   .meta({ id: 'Code', description: 'One valid value of a coded item.' });
@@ -51,14 +70,14 @@ export const MissingCodeSchema = z
   .strictObject({
     code: CodeValueSchema,
     kind: MissingKindSchema,
-    label: z.string().optional().describe('Label of the missing code as printed on the questionnaire.'),
+    label: LabelSchema.optional().describe('Label of the missing code as printed on the questionnaire.'),
   })
   .meta({ id: 'MissingCode', description: 'A declared missing-value code.' });
 
 export const ItemSchema = z
   .strictObject({
     name: z.string().min(1).describe('The column header in deliveries; unique; case-sensitive.'),
-    label: z.string().describe('Short description.'),
+    label: LabelSchema.describe('Short description.'),
     text: z.string().optional().describe('Full question wording.'),
     role: z
       .enum(ROLES)
@@ -89,6 +108,10 @@ export const ItemSchema = z
       .optional()
       .describe('Regular expression (JavaScript syntax, u flag) that a text value must match as a whole.'),
     unit: z.string().optional().describe('Unit of an interval or ratio item (years, minutes, km).'),
+    confidential: z
+      .boolean()
+      .optional()
+      .describe('The values identify or expose a person (a name, a phone number, an exact income): they never appear in reports or exports unless asked for with --show-values.'),
   })
   .meta({ id: 'Item', description: 'One column of a delivery.' });
 
@@ -102,6 +125,30 @@ export const RuleSchema = z
   })
   .meta({ id: 'Rule', description: 'A cross-item consistency rule.' });
 
+export const DesignSchema = z
+  .strictObject({
+    weight: z.string().min(1).optional().describe('Item holding the survey weight (defaults to the role "weight" item).'),
+    strata: z.string().min(1).optional().describe('Item holding the stratum of each record.'),
+    cluster: z.string().min(1).optional().describe('Item holding the cluster (primary sampling unit) of each record; clusters are numbered within strata.'),
+    fpc: z
+      .string()
+      .min(1)
+      .optional()
+      .describe('Item holding the finite population correction of each stratum: its population count of clusters, or the sampling fraction (every value at most 1).'),
+  })
+  .meta({ id: 'Design', description: 'The sample design, by item names: standard errors are computed for it by Taylor linearisation.' });
+
+export const DisclosureSchema = z
+  .strictObject({
+    minCell: z
+      .number()
+      .int()
+      .min(1)
+      .optional()
+      .describe('Counts below this are suppressed (with the complementary cells that would reveal them) in reports and exports; default 5; 1 turns suppression off.'),
+  })
+  .meta({ id: 'Disclosure', description: 'Disclosure control for the tables codeweir writes.' });
+
 export const CodebookSchema = z
   .strictObject({
     $schema: z.string().optional().describe('Path or URL of the shipped codebook.schema.json.'),
@@ -111,12 +158,19 @@ export const CodebookSchema = z
       .describe('Identifier (slug) of the questionnaire: letters, digits, dot, underscore, hyphen.'),
     version: z.string().min(1).describe('Version of the codebook; reports print it.'),
     title: z.string().describe('Human title.'),
+    languages: z
+      .array(LanguageTagSchema)
+      .min(1)
+      .optional()
+      .describe('Languages the labels are given in (BCP 47 tags); the first is the default. Lint checks every label object has each of them.'),
     missingSets: z
       .record(z.string(), z.array(MissingCodeSchema))
       .optional()
       .describe('Named, reusable lists of missing codes.'),
     items: z.array(ItemSchema).min(1).describe('One entry per column; array order is the expected column order.'),
     rules: z.array(RuleSchema).optional().describe('Cross-item consistency rules.'),
+    design: DesignSchema.optional(),
+    disclosure: DisclosureSchema.optional(),
   })
   .describe('A codeweir codebook: one questionnaire, encoded once.');
 
@@ -128,6 +182,7 @@ export type MissingCode = z.infer<typeof MissingCodeSchema>;
 export type Rule = z.infer<typeof RuleSchema>;
 export type Bounds = z.infer<typeof BoundsSchema>;
 export type Bin = z.infer<typeof BinSchema>;
+export type Label = z.infer<typeof LabelSchema>;
 
 /**
  * The JSON Schema (draft-07, the draft editors support most widely) generated from

@@ -140,7 +140,8 @@ describe('expression checks', () => {
     const [p, ...rest] = lint(cb).problems;
     expect(rest).toEqual([]);
     expect(p).toMatchObject({ code: 'cel-unknown-item', path: '/items/5/askedWhen' });
-    expect(p!.message).toBe('unknown item "hh_sise" at character 1 (did you mean "hh_size"?)');
+    expect(p!.message).toBe('item "school_km": unknown item "hh_sise" at character 1 (did you mean "hh_size"?)');
+    expect(p!.item).toBe('school_km');
   });
 
   it('type errors against the declared items', () => {

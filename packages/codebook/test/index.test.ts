@@ -5,11 +5,11 @@ describe('public surface of @codeweir/codebook', () => {
   it('exports exactly these runtime names (a change here is a change of the contract)', () => {
     expect(Object.keys(api).sort()).toEqual([
       'BinSchema', 'BoundsSchema', 'CHECKS', 'CodeSchema', 'CodeValueSchema', 'CodebookSchema', 'ExpressionContext',
-      'ITEM_TYPES', 'ItemSchema', 'LEVELS', 'MAX_EXPRESSION_DEPTH', 'MISSING_KINDS', 'MissingCodeSchema', 'MissingKindSchema',
+      'ITEM_TYPES', 'ItemSchema', 'LEVELS', 'LabelSchema', 'LanguageTagSchema', 'MAX_EXPRESSION_DEPTH', 'MISSING_KINDS', 'MissingCodeSchema', 'MissingKindSchema',
       'PROBLEM_SEVERITY', 'ROLES', 'RULE_SEVERITIES', 'RuleSchema', 'SCHEMA_FILE_URL', 'ambiguousRepetition', 'analyseCodebook',
-      'buildCompiled', 'canonicalNumberText', 'closest', 'codeKeys', 'codebookJsonSchema', 'compileCodebook', 'compileExpression',
+      'buildCompiled', 'canonicalNumberText', 'closest', 'codeKeys', 'codebookJsonSchema', 'codebookLanguages', 'compileCodebook', 'compileExpression',
       'compilePattern', 'daysSinceEpoch', 'didYouMean', 'editDistance', 'escapePointerToken', 'hasErrors', 'isUnsafePattern',
-      'lineColumn', 'loadCodebook', 'loadCodebookOrThrow', 'lookupCell', 'parseCodebook', 'pointer', 'problem', 'resolveMissing',
+      'labelHas', 'labelText', 'lineColumn', 'loadCodebook', 'loadCodebookOrThrow', 'lookupCell', 'parseCodebook', 'pointer', 'problem', 'resolveLabels', 'resolveMissing',
       'scanJson', 'schemaFileText', 'validateWithShippedSchema',
     ]);
   });

@@ -84,13 +84,13 @@ describe('schema problems', () => {
     cb.items[3].lable = 'x';
     const p = lint(cb).problems;
     expect(codesAndPaths(p)).toEqual(['unknown-field /items/3/lable']);
-    expect(p[0]!.message).toBe('unknown field "lable" (did you mean "label"?)');
+    expect(p[0]!.message).toBe('item "hh_size": unknown field "lable" (did you mean "label"?)');
   });
 
   it('an unknown field with no close name lists the allowed ones', () => {
     const p = lint({ ...household(), extra: 1 }).problems;
     expect(codesAndPaths(p)).toEqual(['unknown-field /extra']);
-    expect(p[0]!.message).toContain('allowed fields are $schema, codebook, version, title, missingSets, items, rules');
+    expect(p[0]!.message).toContain('allowed fields are $schema, codebook, version, title, languages, missingSets, items, rules');
   });
 
   it('a misspelt enum value, a missing field, a wrong type, inside an inline missing list', () => {
@@ -106,7 +106,7 @@ describe('schema problems', () => {
       'wrong-type /items/5/missing/1/code',
     ]);
     expect(p[0]!.message).toContain('(did you mean "nominal"?)');
-    expect(p[3]!.message).toBe('expected a number or a string, got an array');
+    expect(p[3]!.message).toBe('item "school_km": expected a number or a string, got an array');
   });
 
   it('a field given twice in one object', () => {

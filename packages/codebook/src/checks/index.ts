@@ -14,6 +14,7 @@ import { missingCodes } from './missing.ts';
 import { bounds } from './bounds.ts';
 import { patterns } from './patterns.ts';
 import { expressions } from './expressions.ts';
+import { labels } from './labels.ts';
 
 export const CHECKS: readonly CodebookCheck[] = [
   duplicateItems,
@@ -27,6 +28,7 @@ export const CHECKS: readonly CodebookCheck[] = [
   patterns,
   expressions,
   duplicateRules,
+  labels,
 ];
 
 /**

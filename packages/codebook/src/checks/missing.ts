@@ -12,9 +12,15 @@ function numericValue(code: number | string): number | undefined {
 }
 
 /**
- * Missing codes: a named set must exist; codes within one list are distinct; a missing code
- * must be neither a valid code of the item nor a value inside its `range` (either would make a
- * cell both valid and missing).
+ * Missing codes: a named set must exist; codes within one list are distinct. The precedence
+ * rule is that a declared missing code always wins: a cell holding it is missing of its kind,
+ * whatever `range` says. So a missing code inside the range (income 9999998 with min 0, the
+ * way many codebooks are written) is a warning: a genuine value equal to it would be read as
+ * missing. Two overlaps stay errors, because there the declaration itself cannot decide the
+ * cell: a missing code that is also a valid code of the item (the codebook says both), and a
+ * missing code inside a bin of a binned item (a delivery of raw quantities, which the
+ * `unbinned-value` and `unbinned-column` findings exist for, would hold the same number as a
+ * quantity of that bin).
  */
 export const missingCodes: CodebookCheck = {
   name: 'missing codes',
@@ -58,13 +64,28 @@ export const missingCodes: CodebookCheck = {
         for (const k of keys) seen.add(k);
         const hit = keys.find((k) => validKeys.has(k));
         if (hit !== undefined) {
-          ctx.report('missing-collides', at(j), `missing code ${JSON.stringify(m.code)}${from} is also a valid code of item "${it.name}"`);
+          ctx.report('missing-collides', at(j), `missing code ${JSON.stringify(m.code)}${from} is also a valid code of item "${it.name}": a cell ${JSON.stringify(String(m.code))} would be both a valid answer and missing, so the codebook cannot say which; drop one of them`);
           return;
         }
         const v = numeric ? numericValue(m.code) : undefined;
+        if (v === undefined) return;
+        const bin = (it.codes ?? []).find((c) => c.bin !== undefined && v >= c.bin.min && (c.bin.max === undefined || v <= c.bin.max));
+        if (bin?.bin) {
+          const b = bin.bin;
+          ctx.report(
+            'missing-in-bin',
+            at(j),
+            `missing code ${JSON.stringify(m.code)}${from} of item "${it.name}" lies inside the bin ${b.min}${b.max === undefined ? ' or more' : ` to ${b.max}`} of code ${JSON.stringify(bin.code)}: in a delivery of raw quantities the cell ${JSON.stringify(String(m.code))} could be that missing code or a quantity of the bin, so renumber the missing code or the bin`,
+          );
+          return;
+        }
         const r = it.range;
-        if (v !== undefined && r && (r.min !== undefined || r.max !== undefined) && (r.min === undefined || v >= r.min) && (r.max === undefined || v <= r.max)) {
-          ctx.report('missing-in-range', at(j), `missing code ${JSON.stringify(m.code)}${from} lies inside the range of item "${it.name}" (${r.min ?? '-inf'} to ${r.max ?? 'inf'}), so it would read as a valid value`);
+        if (r && (r.min !== undefined || r.max !== undefined) && (r.min === undefined || v >= r.min) && (r.max === undefined || v <= r.max)) {
+          ctx.report(
+            'missing-in-range',
+            at(j),
+            `missing code ${JSON.stringify(m.code)} (${m.kind})${from} of item "${it.name}" lies inside its range ${r.min ?? '-inf'} to ${r.max ?? 'inf'}: a cell ${JSON.stringify(String(m.code))} is read as that missing code, never as a value`,
+          );
         }
       });
     });
