@@ -57,6 +57,10 @@ export const PROBLEM_SEVERITY = {
   'asked-when-cycle': 'error',
   'cel-bad-date': 'error',
   'duplicate-rule-id': 'error',
+  // Sample design
+  'design-unknown-item': 'error',
+  'design-item-repeated': 'error',
+  'design-item-type': 'error',
   // Labels and languages
   'language-tag': 'error',
   'label-language-missing': 'warning',

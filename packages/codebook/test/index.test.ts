@@ -4,7 +4,7 @@ import * as api from '../src/index.ts';
 describe('public surface of @codeweir/codebook', () => {
   it('exports exactly these runtime names (a change here is a change of the contract)', () => {
     expect(Object.keys(api).sort()).toEqual([
-      'BinSchema', 'BoundsSchema', 'CHECKS', 'CodeSchema', 'CodeValueSchema', 'CodebookSchema', 'ExpressionContext',
+      'BinSchema', 'BoundsSchema', 'CHECKS', 'CodeSchema', 'CodeValueSchema', 'CodebookSchema', 'DesignSchema', 'DisclosureSchema', 'ExpressionContext',
       'ITEM_TYPES', 'ItemSchema', 'LEVELS', 'LabelSchema', 'LanguageTagSchema', 'MAX_EXPRESSION_DEPTH', 'MISSING_KINDS', 'MissingCodeSchema', 'MissingKindSchema',
       'PROBLEM_SEVERITY', 'ROLES', 'RULE_SEVERITIES', 'RuleSchema', 'SCHEMA_FILE_URL', 'ambiguousRepetition', 'analyseCodebook',
       'buildCompiled', 'canonicalNumberText', 'closest', 'codeKeys', 'codebookJsonSchema', 'codebookLanguages', 'compileCodebook', 'compileExpression',

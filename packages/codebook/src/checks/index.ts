@@ -15,6 +15,7 @@ import { bounds } from './bounds.ts';
 import { patterns } from './patterns.ts';
 import { expressions } from './expressions.ts';
 import { labels } from './labels.ts';
+import { design } from './design.ts';
 
 export const CHECKS: readonly CodebookCheck[] = [
   duplicateItems,
@@ -29,6 +30,7 @@ export const CHECKS: readonly CodebookCheck[] = [
   expressions,
   duplicateRules,
   labels,
+  design,
 ];
 
 /**
