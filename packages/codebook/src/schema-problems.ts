@@ -133,6 +133,9 @@ export function zodIssuesToProblems(issues: readonly z.core.$ZodIssue[], data: u
         }
         break;
       }
+      case 'invalid_key':
+        out.push(problem('invalid-value', here, `${JSON.stringify(String(path[path.length - 1]))} is not a BCP 47 language tag (such as en, fr or pt-BR)`));
+        break;
       case 'too_small':
         out.push(problem('invalid-value', here, Array.isArray(value) ? 'must not be an empty list' : 'must not be empty'));
         break;

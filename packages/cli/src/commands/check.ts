@@ -71,12 +71,12 @@ function withProgress(d: Delivery, io: Io): Delivery {
 
 /**
  * `codeweir check <data> --codebook <file> [--out <dir>] [--split-by <item>] [--json]
- * [--fail-on warning] [--max-findings-per-rule N] [--delimiter c] [--encoding e]
+ * [--fail-on warning] [--strict] [--max-findings-per-rule N] [--delimiter c] [--encoding e]
  * [--decimal-comma] [--quantiles N] [--max-field-bytes N] [--threads N] [--quiet]`. With more than one
  * thread (the default on a multi-core machine) a large file is checked in parallel, with the
  * same result; progress is shown for a one-thread check only. Exit 0 when no finding is at error severity
  * (with --fail-on warning: no warning either), 1 when there are error findings or the
- * codebook is invalid, 2 for usage errors and unreadable input.
+ * codebook is invalid (with --strict: has lint warnings), 2 for usage errors and unreadable input.
  */
 export const checkCommand: CommandDef = {
   command: 'check <data>',
@@ -89,6 +89,7 @@ export const checkCommand: CommandDef = {
       .option('split-by', { type: 'string', describe: 'a group item: also write by-<item>/<code>/ files holding only that group\'s rows (needs --out)' })
       .option('json', { type: 'boolean', default: false, describe: 'print the check summary as one JSON document on stdout' })
       .option('fail-on', { type: 'string', choices: ['error', 'warning'], default: 'error', describe: 'lowest severity that makes the exit code 1' })
+      .option('strict', { type: 'boolean', default: false, describe: "the codebook's lint warnings count as errors: the check refuses to start (exit 1)" })
       .option('max-findings-per-rule', { type: 'string', describe: 'findings kept in the log per rule (counts stay exact); default 1000' })
       .option('delimiter', { type: 'string', describe: 'field delimiter (detected from the header when absent)' })
       .option('encoding', { type: 'string', describe: 'utf-8 (default), windows-1252, latin1, utf-16le, utf-16be' })
@@ -118,7 +119,7 @@ export const checkCommand: CommandDef = {
     });
     const splitBy = args['split-by'] === undefined ? undefined : String(args['split-by']);
     if (splitBy !== undefined && args.out === undefined) throw new CodeweirError('CW_USAGE', '--split-by writes files, so it needs --out <dir>.');
-    const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)));
+    const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)), { strict: args.strict === true });
     if (splitBy !== undefined && !codebook.groupItems.some((g) => g.name === splitBy)) {
       const groups = codebook.groupItems.map((g) => g.name);
       throw new CodeweirError('CW_USAGE', `--split-by takes a group item of the codebook${groups.length ? ` (${groups.join(', ')})` : ', which has none'}, got ${splitBy}.`);

@@ -3,6 +3,7 @@ import type { CompiledCodebook } from '@codeweir/codebook';
 import type { DescribeResult, ItemDescription, PairDescription } from '@codeweir/describe';
 import type { CommandDef } from '../io.ts';
 import { THREADS_OPTION, threadsOption } from '../threads.ts';
+import { LANG_OPTION, langOption } from '../lang.ts';
 
 /** Numbers in the text summary: four significant digits, whole numbers as they are. */
 function num(x: number | undefined | null): string {
@@ -94,7 +95,7 @@ export function describeText(r: DescribeResult, dateItems: ReadonlySet<string> =
 
 /**
  * `codeweir describe <data> --codebook <file> [--pair x:y ...] [--pairs all] [--listwise]
- * [--weight <item>] [--quantiles 1..9] [--percentiles 10,90] [--delimiter] [--encoding] [--threads N] [--json]`:
+ * [--weight <item>] [--quantiles 1..9] [--percentiles 10,90] [--delimiter] [--encoding] [--lang tag] [--threads N] [--json]`:
  * checks the delivery, then prints level-appropriate summaries of the valid cells (JSON with
  * --json). Exit 0 when the delivery has no error findings, 1 when it has some (the summaries are
  * printed all the same) or the codebook is invalid, 2 for usage errors or unreadable input.
@@ -114,6 +115,7 @@ export const describeCommand: CommandDef = {
       .option('percentiles', { type: 'string', describe: 'extra percentiles, e.g. 10,90' })
       .option('delimiter', { type: 'string', describe: 'field delimiter (detected when absent)' })
       .option('encoding', { type: 'string', describe: 'utf-8 (default), windows-1252, latin1, utf-16le, utf-16be' })
+      .option('lang', LANG_OPTION)
       .option('threads', THREADS_OPTION)
       .option('json', { type: 'boolean', default: false, describe: 'print the describe document as JSON on stdout' }),
   handler: async (args, io) => {
@@ -136,7 +138,8 @@ export const describeCommand: CommandDef = {
       listwise: args.listwise,
       percentiles: args.percentiles,
     });
-    const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)));
+    const lang = langOption(args.lang);
+    const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)), lang === undefined ? {} : { lang });
     const result = await checkFile(resolve(io.cwd, String(args.data)), codebook, {
       quantileType: options.quantileType,
       delimiter: args.delimiter,

@@ -4,6 +4,7 @@ import type { Delivery, RowBatch } from '@codeweir/read';
 import { CodeweirError, writeFileAtomic } from '@codeweir/core';
 import type { CommandDef } from '../io.ts';
 import { THREADS_OPTION, threadsOption } from '../threads.ts';
+import { LANG_OPTION, langOption } from '../lang.ts';
 import { createProgress, type Progress } from '../progress.ts';
 
 /** Counts rows as the one pass reads them, for the progress line. */
@@ -23,7 +24,7 @@ function counted(d: Delivery, progress: Progress): Delivery {
 
 /**
  * `codeweir report <data> --codebook <file> -o <file.html> [--pair x:y ...] [--pairs all]
- * [--weight <item>] [--quantiles 1..9] [--delimiter c] [--encoding e] [--threads N] [--quiet]`: one pass
+ * [--weight <item>] [--quantiles 1..9] [--delimiter c] [--encoding e] [--lang tag] [--threads N] [--quiet]`: one pass
  * over the delivery (check, whose retained columns describe then summarises), then one
  * self-contained HTML file written atomically. Exit 0 accepted, 1 error findings (the report
  * is written in both cases) or an invalid codebook, 2 usage errors or unreadable input.
@@ -42,6 +43,7 @@ export const reportCommand: CommandDef = {
       .option('quantiles', { type: 'string', describe: 'Hyndman-Fan quantile type, 1 to 9 (default 7)' })
       .option('delimiter', { type: 'string', describe: 'field delimiter (detected when absent)' })
       .option('encoding', { type: 'string', describe: 'utf-8 (default), windows-1252, latin1, utf-16le, utf-16be' })
+      .option('lang', LANG_OPTION)
       .option('threads', THREADS_OPTION)
       .option('quiet', { type: 'boolean', default: false, describe: 'no progress on stderr' }),
   handler: async (args, io) => {
@@ -73,7 +75,8 @@ export const reportCommand: CommandDef = {
     const outPath = resolve(io.cwd, out);
     if (outPath === dataPath) throw new CodeweirError('CW_USAGE', `-o names the delivery itself (${data}); choose another file for the report.`);
 
-    const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)));
+    const lang = langOption(args.lang);
+    const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)), lang === undefined ? {} : { lang });
     const progress = createProgress(io, { label: 'reading rows', quiet: args.quiet === true });
     try {
       let result: CheckResult;
