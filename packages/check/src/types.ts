@@ -78,7 +78,17 @@ export interface CheckSummary {
   codebook: { codebook: string; version: string };
   file?: string;
   rows: number;
-  header: { missing: string[]; unexpected: string[]; duplicate: string[]; outOfOrder?: boolean };
+  header: {
+    missing: string[];
+    unexpected: string[];
+    duplicate: string[];
+    outOfOrder?: boolean;
+    /**
+     * Typed formats (xlsx, Parquet): columns whose delivered type disagrees with the item's type
+     * (cells are judged by their value all the same). Absent when there is none.
+     */
+    typeNotes?: Array<{ column: string; delivered: string; expected: string; message: string }>;
+  };
   findings: {
     total: number;
     byRule: Partial<Record<FindingRule, number>>;

@@ -19,5 +19,7 @@
 export type * from './types.ts';
 export { openDelivery, openDeliveryRange, tokenizeFile } from './file.ts';
 export { readDeliveryText } from './text.ts';
+export { openAnyDelivery, formatOf, cellText, FORMATS, type DeliveryFormat, type AnyReadOptions } from './formats.ts';
+export { typeNotes, type TypeNote } from './type-notes.ts';
 export { splitDelivery, type SplitRange } from './split.ts';
 export { normalizeReadOptions, DEFAULT_MAX_FIELD_BYTES, DEFAULT_BLOCK_SIZE, DEFAULT_BATCH_FIELDS } from './options.ts';

@@ -34,8 +34,20 @@ export interface RowBatch {
   lines: Uint32Array;
 }
 
+/**
+ * The type a typed format (xlsx, Parquet) delivered a column as: `integer`, `decimal`, `text`,
+ * `date`, `timestamp` (a date with a time of day), `boolean`, or `mixed` (cells of several kinds).
+ */
+export type DeliveredType = 'integer' | 'decimal' | 'text' | 'date' | 'timestamp' | 'boolean' | 'mixed';
+
 export interface Delivery {
   file?: string;
+  /** The format read (`csv` when absent): `csv.gz`, `xlsx` or `parquet` for the other readers. */
+  format?: 'csv' | 'csv.gz' | 'xlsx' | 'parquet';
+  /** xlsx: the worksheet read. */
+  sheet?: string;
+  /** Typed formats: the delivered type of each column, by header name. Absent for delimited text. */
+  columnTypes?: Record<string, DeliveredType>;
   header: string[];
   delimiter: string;
   encoding: Encoding;

@@ -2,6 +2,7 @@ import { resolve } from 'node:path';
 import type { CompiledCodebook } from '@codeweir/codebook';
 import type { DescribeResult, ItemDescription, PairDescription } from '@codeweir/describe';
 import type { CommandDef } from '../io.ts';
+import { FORMAT_OPTION, SHEET_OPTION, checkTypedInput, inputFormatOf, isPlainText } from '../formats.ts';
 import { THREADS_OPTION, threadsOption } from '../threads.ts';
 import { LANG_OPTION, langOption } from '../lang.ts';
 
@@ -117,6 +118,8 @@ export const describeCommand: CommandDef = {
       .option('encoding', { type: 'string', describe: 'utf-8 (default), windows-1252, latin1, utf-16le, utf-16be' })
       .option('lang', LANG_OPTION)
       .option('threads', THREADS_OPTION)
+      .option('format', FORMAT_OPTION)
+      .option('sheet', SHEET_OPTION)
       .option('json', { type: 'boolean', default: false, describe: 'print the describe document as JSON on stdout' }),
   handler: async (args, io) => {
     // Options are checked before any file is read, so a typo fails at once.
@@ -140,12 +143,11 @@ export const describeCommand: CommandDef = {
     });
     const lang = langOption(args.lang);
     const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)), lang === undefined ? {} : { lang });
-    const result = await checkFile(resolve(io.cwd, String(args.data)), codebook, {
-      quantileType: options.quantileType,
-      delimiter: args.delimiter,
-      encoding: args.encoding,
-      threads,
-    });
+    const dataPath = resolve(io.cwd, String(args.data));
+    const input = inputFormatOf(args);
+    const result = (await isPlainText(dataPath, input))
+      ? await checkFile(dataPath, codebook, { quantileType: options.quantileType, delimiter: args.delimiter, encoding: args.encoding, threads })
+      : await checkTypedInput(dataPath, codebook, { quantileType: options.quantileType, delimiter: args.delimiter as string | undefined, encoding: args.encoding as string | undefined }, input);
     const described = await describeParallel(result, codebook, options, { threads });
     io.stdout(args.json === true ? JSON.stringify(described, null, 2) + '\n' : describeText(described, dateItems(codebook)));
     // The exit code follows the contract for every command: 1 when the delivery has findings

@@ -3,6 +3,7 @@ import { stat } from 'node:fs/promises';
 import { CodeweirError, writeFileAtomic } from '@codeweir/core';
 import type { ReadOptions } from '@codeweir/read';
 import type { CommandDef } from '../io.ts';
+import { FORMAT_OPTION, SHEET_OPTION, inputFormatOf } from '../formats.ts';
 
 function plural(n: number, word: string, many = `${word}s`): string {
   return `${n} ${n === 1 ? word : many}`;
@@ -45,6 +46,8 @@ export const draftCommand: CommandDef = {
       .option('force', { type: 'boolean', default: false, describe: 'with -o, replace an existing file' })
       .option('delimiter', { type: 'string', describe: 'field delimiter (detected when absent)' })
       .option('encoding', { type: 'string', describe: 'utf-8 (default), windows-1252, latin1, utf-16le, utf-16be' })
+      .option('format', FORMAT_OPTION)
+      .option('sheet', SHEET_OPTION)
       .option('decimal-comma', { type: 'boolean', default: false, describe: 'numbers are written with a decimal comma (3,5)' })
       .option('max-codes', { type: 'string', describe: 'most distinct values for a column to get a code list (default 12)' })
       .option('id', { type: 'string', describe: 'identifier (slug) of the drafted codebook (default from the file name)' })
@@ -62,7 +65,7 @@ export const draftCommand: CommandDef = {
       throw new CodeweirError('CW_USAGE', `${String(args.out)} already exists; pass --force to replace it, or choose another file.`, { file: String(args.out) });
     }
     // Loaded here, not at the top, so that starting the CLI costs only the command it runs.
-    const [{ openDelivery }, { parseCodebook }, { draftDelivery, formatJson }] = await Promise.all([
+    const [{ openAnyDelivery }, { parseCodebook }, { draftDelivery, formatJson }] = await Promise.all([
       import('@codeweir/read'),
       import('@codeweir/codebook'),
       import('@codeweir/draft'),
@@ -70,7 +73,7 @@ export const draftCommand: CommandDef = {
     const readOptions: ReadOptions = {};
     if (args.delimiter !== undefined) readOptions.delimiter = String(args.delimiter);
     if (args.encoding !== undefined) readOptions.encoding = String(args.encoding) as ReadOptions['encoding'];
-    const delivery = await openDelivery(data, readOptions);
+    const delivery = await openAnyDelivery(data, { ...readOptions, ...inputFormatOf(args) });
     const result = await draftDelivery(delivery, {
       source: basename(String(args.data)),
       codebook: args.id === undefined ? undefined : String(args.id),

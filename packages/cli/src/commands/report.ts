@@ -3,6 +3,7 @@ import type { CheckResult } from '@codeweir/check';
 import type { Delivery, RowBatch } from '@codeweir/read';
 import { CodeweirError, writeFileAtomic } from '@codeweir/core';
 import type { CommandDef } from '../io.ts';
+import { FORMAT_OPTION, SHEET_OPTION, checkTypedInput, inputFormatOf, isPlainText } from '../formats.ts';
 import { THREADS_OPTION, threadsOption } from '../threads.ts';
 import { LANG_OPTION, langOption } from '../lang.ts';
 import { createProgress, type Progress } from '../progress.ts';
@@ -45,6 +46,8 @@ export const reportCommand: CommandDef = {
       .option('encoding', { type: 'string', describe: 'utf-8 (default), windows-1252, latin1, utf-16le, utf-16be' })
       .option('lang', LANG_OPTION)
       .option('threads', THREADS_OPTION)
+      .option('format', FORMAT_OPTION)
+      .option('sheet', SHEET_OPTION)
       .option('quiet', { type: 'boolean', default: false, describe: 'no progress on stderr' }),
   handler: async (args, io) => {
     // Every option is checked before any file is read, so a typo fails at once.
@@ -80,7 +83,11 @@ export const reportCommand: CommandDef = {
     const progress = createProgress(io, { label: 'reading rows', quiet: args.quiet === true });
     try {
       let result: CheckResult;
-      if (threads > 1) {
+      const input = inputFormatOf(args);
+      if (!(await isPlainText(dataPath, input))) {
+        progress.phase('checking');
+        result = await checkTypedInput(dataPath, codebook, checkOptions, input);
+      } else if (threads > 1) {
         progress.phase('checking');
         result = await checkFile(dataPath, codebook, { ...checkOptions, threads });
       } else {
