@@ -103,14 +103,14 @@ cases <- list(
     list(weight = "pw", cluster = "dnum"), c("api00", "enroll"), c("awards", "stype"), "stype"),
   case("nhanes, strata and clusters (nested)", "survey-nhanes.csv",
     svydesign(id = ~psu, strata = ~stratum, weights = ~wt, nest = TRUE, data = nh),
-    list(weight = "wt", strata = "stratum", cluster = "psu"), c("hi_chol"), c("race"), "sex")
+    list(weight = "wt", strata = "stratum", cluster = "psu"), c("hi_chol"), c("race", "hi_chol"), "sex")
 )
 # The single-cluster stratum: R's survey.lonely.psu = "adjust" (the lonely PSU is compared with
 # the mean over all PSUs rather than its stratum's, which it alone makes up).
 options(survey.lonely.psu = "adjust")
 cases[[length(cases) + 1]] <- case("nhanes without stratum 75's second PSU, lonely PSU adjusted", "survey-nhanes-lonely.csv",
   svydesign(id = ~psu, strata = ~stratum, weights = ~wt, nest = TRUE, data = nhl),
-  list(weight = "wt", strata = "stratum", cluster = "psu", singleCluster = "adjust"), c("hi_chol"), c("race"), "sex")
+  list(weight = "wt", strata = "stratum", cluster = "psu", singleCluster = "adjust"), c("hi_chol"), c("race", "hi_chol"), "sex")
 
 # Weights scaled to the sample size (sum of weights = n): the design effect against simple random
 # sampling with replacement, R's deff = "replace".

@@ -8,6 +8,7 @@ import { KINDS } from './classify.ts';
 import { rules, RULE_NUMBER, RULE_ORDER } from './rules/index.ts';
 import { SEVERITIES, SLOTS, type GroupPartial, type IdColumn, type PartialResult } from './pass.ts';
 import { NumberFirsts, TextFirsts, type UniqueEntries } from './unique.ts';
+import { designFindings } from './design.ts';
 import type { CheckResult, CheckSummary, ColumnStore, Finding, FindingRule, GroupItemTally, ItemColumn, ItemTally } from './types.ts';
 
 const NR = RULE_ORDER.length;
@@ -368,6 +369,8 @@ export function finalize(p: PartialResult, given?: { quartiles?: ReadonlyMap<num
       note(rule, item.index, { row: r + 1, id: idOfRow(p.ids, r + 1), item: item.name, value, rule, severity: 'info', message });
     }
   }
+
+  for (const d of designFindings(p, codebook, cap, (row) => idOfRow(p.ids, row))) note(d.rule, d.item, d.finding);
 
   const all = sortAndCapFindings([...p.findings, ...extra], codebook, cap);
   for (const f of all) {

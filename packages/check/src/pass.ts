@@ -228,7 +228,9 @@ export function createPass(codebook: CompiledCodebook, header: readonly string[]
   let recordMissing = tallies;
   let findings: Finding[] = [];
   const pending: Finding[] = [];
-  const retainedShape = cls.map((c) => (c.retained && !absent[c.item.index] && (c.shape !== 'coded' || options.retainCoded) ? c.shape : null));
+  // The design's strata and cluster are kept per row even when coded items are not (design findings need them).
+  const designParts = new Set([codebook.design?.strata, codebook.design?.cluster]);
+  const retainedShape = cls.map((c) => (c.retained && !absent[c.item.index] && (c.shape !== 'coded' || options.retainCoded || designParts.has(c.item.name)) ? c.shape : null));
   let columns: Array<Chunked<Float64Array> | Chunked<Uint16Array> | null> = [];
   const coded = Uint8Array.from(cls, (c) => (c.shape === 'coded' ? 1 : 0));
   /** Items whose valid value is text (free text, or text codes): the trimmed text is kept per row. */

@@ -27,7 +27,10 @@ export type FindingRule =
   | 'outlier'
   | 'extreme'
   | 'surrounding-space'
-  | 'no-rows';
+  | 'no-rows'
+  | 'weight-not-positive'
+  | 'lone-cluster-stratum'
+  | 'cluster-across-strata';
 
 export type FindingSeverity = 'error' | 'warning' | 'info';
 

@@ -28,6 +28,9 @@ import { outlier } from './outlier.ts';
 import { extreme } from './extreme.ts';
 import { surroundingSpace } from './surrounding-space.ts';
 import { noRows } from './no-rows.ts';
+import { loneClusterStratum } from './lone-cluster-stratum.ts';
+import { clusterAcrossStrata } from './cluster-across-strata.ts';
+import { weightNotPositive } from './weight-not-positive.ts';
 
 export { describeBounds, type RuleDef, type CellParams } from './define.ts';
 
@@ -55,6 +58,9 @@ export const rules = {
   'rule-failed': ruleFailed,
   outlier,
   extreme,
+  'weight-not-positive': weightNotPositive,
+  'lone-cluster-stratum': loneClusterStratum,
+  'cluster-across-strata': clusterAcrossStrata,
 } as const satisfies { [K in FindingRule]: RuleDef<never> };
 
 /** Every rule in a fixed order; the position is the rule's number in counters. */
