@@ -15,7 +15,7 @@ import { join, resolve } from 'node:path';
 import { generateDelivery, type GeneratedDelivery } from './generate.ts';
 import { buildPeer, shapePeer, type PeerResult } from './duckdb-peer.ts';
 import { measureNode, median, rssSource, type Measurement } from './measure.ts';
-import { buildBundle, BUNDLE } from './build.ts';
+import { buildBundle, BIN } from '../scripts/bundle.ts';
 
 const ROOT = resolve(new URL('..', import.meta.url).pathname);
 const DIR = join(ROOT, '.bench');
@@ -120,8 +120,9 @@ async function main(): Promise<void> {
   let cli: string[];
   if (args.source) cli = ['--import', 'tsx', join(ROOT, 'packages/cli/src/bin.ts')];
   else {
+    // The file npm and pnpm link as the `codeweir` binary, which loads the bundle beside it.
     await buildBundle();
-    cli = [BUNDLE];
+    cli = [BIN];
   }
   const threads = args.threads ? ['--threads', String(args.threads)] : [];
   const rows = args.big ? 10_000_000 : args.rows;
@@ -161,7 +162,7 @@ async function main(): Promise<void> {
   }
   const report: string[] = [];
   report.push(`## codeweir bench: ${g.rows.toLocaleString('en')} rows x ${g.items.length} items (${(g.bytes / 1e6).toFixed(1)} MB)`);
-  report.push(`Node ${process.version}; ${runs} alternating runs each; peak RSS from ${rssSource}; CLI: ${args.source ? 'tsx from source' : 'bundle dist/codeweir.mjs'}${args.threads ? `; --threads ${args.threads}` : ''}.`);
+  report.push(`Node ${process.version}; ${runs} alternating runs each; peak RSS from ${rssSource}; CLI: ${args.source ? 'tsx from source' : 'the codeweir binary (packages/cli/bin/codeweir.mjs, as installed)'}${args.threads ? `; --threads ${args.threads}` : ''}.`);
   report.push('');
   report.push(table([...results.values()], g, results.get('duckdb')));
   for (const [k, msg] of failed) report.push(`\n${k} did not complete: ${msg}`);

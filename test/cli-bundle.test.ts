@@ -1,9 +1,9 @@
 /**
- * The bundled CLI (`pnpm build`, bench/build.ts) is the same program as the CLI run from source:
+ * The bundled CLI (`pnpm build`, scripts/bundle.ts) is the same program as the CLI run from source:
  * the build compiles the shipped schema's ajv validator ahead of time, measures ASCII help text
  * without string-width and splits every command's packages into chunks of their own, and none
  * of that may change a byte of what a command prints. The in-process run from source is the
- * oracle. The bundle's worker thread (dist/check-worker.mjs beside the chunks) must start and
+ * oracle. The bundle's worker thread (check-worker.mjs beside the chunks) must start and
  * give the one-thread result.
  */
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
@@ -12,7 +12,7 @@ import { mkdtemp, readdir, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
-import { buildBundle } from '../bench/build.ts';
+import { buildBundle } from '../scripts/bundle.ts';
 import { generateDelivery, type GeneratedDelivery } from '../bench/generate.ts';
 import { run } from '../packages/cli/src/cli.ts';
 

@@ -1,20 +1,22 @@
 /**
  * Process-level promises on bad input that need a real process: an interrupted run (SIGINT in
  * the middle of reading a delivery) leaves the previous outputs intact and no temporary files,
- * and a file the user may not read gets exit 2 and one sentence.
+ * and a file the user may not read gets exit 2 and one sentence. The processes run the built CLI
+ * (the bundle the `codeweir` binary loads), built for this test into a temporary folder that
+ * every user may read: the checkout itself may lie under a folder another user cannot enter.
  */
 import { describe, it, expect, beforeAll } from 'vitest';
 import { spawn } from 'node:child_process';
 import { mkdtemp, writeFile, readFile, readdir, readlink, chmod, open } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { join } from 'node:path';
 import { corpusCodebook, cleanRows, seeded, toCsv, HEADER } from './adversarial/corpus.ts';
+import { buildBundle } from '../scripts/bundle.ts';
 
-const repo = resolve(import.meta.dirname, '..');
-const bin = join(repo, 'packages/cli/src/bin.ts');
+let bin = '';
 
 function start(args: string[], opts: { uid?: number; gid?: number } = {}) {
-  const child = spawn(process.execPath, ['--import', 'tsx', bin, ...args], { cwd: repo, stdio: ['ignore', 'pipe', 'pipe'], ...opts });
+  const child = spawn(process.execPath, [bin, ...args], { cwd: dir, stdio: ['ignore', 'pipe', 'pipe'], ...opts });
   let stdout = '';
   let stderr = '';
   child.stdout.on('data', (d) => (stdout += d));
@@ -36,6 +38,8 @@ let dir: string;
 let codebook: string;
 beforeAll(async () => {
   dir = await mkdtemp(join(tmpdir(), 'codeweir-interrupt-'));
+  await buildBundle(true, join(dir, 'cli'));
+  bin = join(dir, 'cli', 'codeweir.mjs');
   codebook = join(dir, 'codebook.json');
   await writeFile(codebook, JSON.stringify(corpusCodebook));
 });

@@ -1,10 +1,12 @@
 /**
- * `pnpm build`: bundles the CLI into one ESM file, `dist/codeweir.mjs`, and the worker threads
- * of the parallel check and describe into `dist/check-worker.mjs` and `dist/describe-worker.mjs`,
- * with esbuild. From source every start pays for the
- * TypeScript loader (tsx) compiling the workspace, several times a bare `node` start; the bundle
- * is plain JavaScript and starts close to bare node. `node dist/codeweir.mjs <command>` is the
- * same CLI as `pnpm codeweir <command>`. Shared code goes to `dist/chunk-*.mjs`.
+ * The shipped CLI: esbuild bundles it into `packages/cli/dist/codeweir.mjs` (the program behind
+ * the `codeweir` binary), `packages/cli/dist/index.mjs` (its programmatic entry, `run`), and the
+ * worker threads of the parallel check and describe into `check-worker.mjs` and
+ * `describe-worker.mjs` beside them, with the codebook schema file. Shared code goes to
+ * `chunk-*.mjs`. One bundle rather than the libraries' module trees because a command then loads
+ * a few files instead of hundreds and validates codebooks with a validator compiled at build
+ * time: `codeweir lint` starts in about twice a bare `node` start (see the README's performance
+ * section). `scripts/build.ts` calls it after building the libraries.
  */
 import { build, type Plugin } from 'esbuild';
 import { copyFileSync, existsSync, mkdirSync, readFileSync, rmSync, statSync, readdirSync } from 'node:fs';
@@ -13,10 +15,19 @@ import { fileURLToPath } from 'node:url';
 import { createRequire } from 'node:module';
 
 const ROOT = resolve(fileURLToPath(new URL('..', import.meta.url)));
+/** Where the bundle is written: the CLI package's `dist/`, which its `bin` and `exports` point into. */
+export const BUNDLE_DIR = join(ROOT, 'packages/cli/dist');
+/** The file linked as the `codeweir` binary: it loads the bundled CLI. */
+export const BIN = join(ROOT, 'packages/cli/bin/codeweir.mjs');
 /** Path of the bundled CLI. */
-export const BUNDLE = join(ROOT, 'dist/codeweir.mjs');
+export const BUNDLE = join(BUNDLE_DIR, 'codeweir.mjs');
 /** Path of the bundled parallel check worker (next to the CLI, where parallel.ts looks for it). */
-export const WORKER_BUNDLE = join(ROOT, 'dist/check-worker.mjs');
+export const WORKER_BUNDLE = join(BUNDLE_DIR, 'check-worker.mjs');
+/**
+ * Packages left out of the bundle and installed beside it as the CLI package's dependencies:
+ * native modules, whose binaries cannot be bundled. Each is loaded only by the commands that use it.
+ */
+export const BUNDLE_EXTERNAL: readonly string[] = ['@duckdb/node-api'];
 
 function newestSource(dir: string): number {
   let newest = 0;
@@ -64,7 +75,7 @@ const schemaBesideBundle: Plugin = {
         .replace(AJV_IMPORT, `import type { ErrorObject, ValidateFunction } from 'ajv';\nimport precompiledValidator from '${PRECOMPILED}';`)
         .replace(AJV_COMPILE, '(precompiledValidator as unknown as ValidateFunction)');
       const expected = text.includes("new URL('../codebook.schema.json', import.meta.url)") && text.includes(AJV_IMPORT) && text.includes(AJV_COMPILE);
-      if (!expected) throw new Error('bench/build.ts: the schema location or the ajv options in packages/codebook/src/json-schema.ts changed; update the build.');
+      if (!expected) throw new Error('scripts/bundle.ts: the schema location or the ajv options in packages/codebook/src/json-schema.ts changed; update the build.');
       return { contents: moved, loader: 'ts' };
     });
     b.onResolve({ filter: new RegExp(`^${PRECOMPILED}$`) }, () => ({ path: PRECOMPILED, namespace: 'codeweir' }));
@@ -102,12 +113,12 @@ export const asciiWidthFirst: Plugin = {
 };
 
 /**
- * Builds both bundles into `outdir` (default dist/) unless they are newer than every source
+ * Builds the bundles into `outdir` (default packages/cli/dist) unless they are newer than every source
  * file under packages/. Cost: a few seconds. Throws esbuild's error when a file does not compile.
  */
-export async function buildBundle(force = false, outdir = join(ROOT, 'dist'), minify = true): Promise<void> {
+export async function buildBundle(force = false, outdir = BUNDLE_DIR, minify = true): Promise<void> {
   const cli = join(outdir, 'codeweir.mjs');
-  const workers = [join(outdir, 'check-worker.mjs'), join(outdir, 'describe-worker.mjs')];
+  const workers = [join(outdir, 'index.mjs'), join(outdir, 'check-worker.mjs'), join(outdir, 'describe-worker.mjs')];
   const stale = (f: string): boolean => force || !existsSync(f) || statSync(f).mtimeMs < newestSource(join(ROOT, 'packages'));
   if (!stale(cli) && !workers.some(stale)) return;
   mkdirSync(outdir, { recursive: true });
@@ -117,6 +128,7 @@ export async function buildBundle(force = false, outdir = join(ROOT, 'dist'), mi
   await build({
     entryPoints: {
       codeweir: join(ROOT, 'packages/cli/src/bin.ts'),
+      index: join(ROOT, 'packages/cli/src/index.ts'),
       'check-worker': join(ROOT, 'packages/check/src/parallel.ts'),
       'describe-worker': join(ROOT, 'packages/describe/src/parallel.ts'),
     },
@@ -133,6 +145,9 @@ export async function buildBundle(force = false, outdir = join(ROOT, 'dist'), mi
     sourcemap: true,
     minify,
     logLevel: 'warning',
+    external: [...BUNDLE_EXTERNAL],
+    // The workspace packages are bundled from their TypeScript source (their `source` export).
+    conditions: ['source'],
     plugins: [schemaBesideBundle, asciiWidthFirst],
     // CommonJS dependencies bundled into ESM call require() for Node's built-ins.
     banner: { js: "import { createRequire as __cwRequire } from 'node:module'; const require = __cwRequire(import.meta.url);" },
