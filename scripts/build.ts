@@ -10,7 +10,7 @@
  * an install in a checkout with a type error in progress still links and builds.
  */
 import { spawnSync } from 'node:child_process';
-import { cpSync, existsSync, mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { cpSync, existsSync, mkdirSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -66,8 +66,31 @@ export async function buildAll(strict = false): Promise<void> {
   await buildBundle(true, BUNDLE_DIR);
 }
 
+/** Newest modification time of the TypeScript and JSON files under `dir` (tests and node_modules aside). */
+function newest(dir: string): number {
+  let t = 0;
+  for (const e of readdirSync(dir, { withFileTypes: true })) {
+    if (e.name === 'node_modules' || e.name === 'test' || e.name === 'dist') continue;
+    const p = join(dir, e.name);
+    if (e.isDirectory()) t = Math.max(t, newest(p));
+    else if (e.name.endsWith('.ts') || e.name.endsWith('.json')) t = Math.max(t, statSync(p).mtimeMs);
+  }
+  return t;
+}
+
+/** Whether a package has no dist/ yet or a source file is newer than the CLI bundle (built last). */
+export function buildIsStale(): boolean {
+  const bundle = join(BUNDLE_DIR, 'codeweir.mjs');
+  if (!existsSync(bundle)) return true;
+  for (const name of readdirSync(join(ROOT, 'packages')))
+    if (existsSync(join(ROOT, 'packages', name, 'src')) && !existsSync(join(ROOT, 'packages', name, 'dist'))) return true;
+  return newest(join(ROOT, 'packages')) > statSync(bundle).mtimeMs;
+}
+
 if (process.argv[1] && resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
   const started = Date.now();
+  // `--if-stale` (the demo): build only when a source file changed since the last build.
+  if (process.argv.includes('--if-stale') && !buildIsStale()) process.exit(0);
   await buildAll();
   process.stdout.write(`built every package's dist/ and the CLI bundle in ${((Date.now() - started) / 1000).toFixed(1)} s\n`);
 }
