@@ -11,5 +11,5 @@ export { normalizeCheckOptions, type CheckOptions, type CheckOptionsInput } from
 export { compileClassifiers, KINDS, VALID, VALID_WARN, MISSING, INVALID, type Classifiers, type ItemClassifier, type CellOut, type ItemShape } from './classify.ts';
 export { mapHeader, type HeaderMap } from './header.ts';
 export { parseNumber, parseIsoDate } from './parse.ts';
-export { writeCheckOutputs, findingsCsv, findingsJsonl, missingnessCsv, missingnessByGroupCsv, neutraliseCell, type WriteCheckOptions } from './outputs.ts';
+export { writeCheckOutputs, folderName, findingsCsv, findingsJsonl, missingnessCsv, missingnessByGroupCsv, neutraliseCell, type WriteCheckOptions } from './outputs.ts';
 export { rules, RULE_ORDER, RULE_NUMBER, type RuleDef } from './rules/index.ts';

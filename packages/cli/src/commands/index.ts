@@ -4,5 +4,7 @@ import { checkCommand } from './check.ts';
 import { describeCommand } from './describe.ts';
 import { reportCommand } from './report.ts';
 import { draftCommand } from './draft.ts';
+import { compareCommand } from './compare.ts';
+import { historyCommand } from './history.ts';
 
-export const commands: CommandDef[] = [lintCommand, checkCommand, describeCommand, reportCommand, draftCommand];
+export const commands: CommandDef[] = [lintCommand, checkCommand, describeCommand, reportCommand, draftCommand, compareCommand, historyCommand];

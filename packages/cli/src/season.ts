@@ -1,0 +1,164 @@
+/**
+ * What check, compare, history and report share for a fieldwork season: checking a delivery
+ * file into a snapshot, recording it in the ledger, and the options that go with them. Every
+ * import of @codeweir/ledger (and so of DuckDB's native module) is dynamic, so a command that
+ * does not use the ledger never loads it.
+ */
+import { join } from 'node:path';
+import type { CheckResult } from '@codeweir/check';
+import type { CompiledCodebook } from '@codeweir/codebook';
+import type { AppendResult, Comparison, DeliverySnapshot, DriftThresholds, History } from '@codeweir/ledger';
+import { CodeweirError } from '@codeweir/core';
+import { isPlainText, type InputFormat } from './formats.ts';
+
+/** `--ledger-wait` as check and report declare it. */
+export const LEDGER_WAIT_OPTION = {
+  type: 'string',
+  describe: 'seconds to wait for another run to release the ledger file before giving up; default 30',
+} as const;
+
+export const DRIFT_P_OPTION = { type: 'string', describe: 'drift is flagged when the test\'s p-value is below this (and the PSI at or above --drift-psi); default 0.01' } as const;
+export const DRIFT_PSI_OPTION = { type: 'string', describe: 'drift is flagged when the population stability index is at or above this (and p below --drift-p); default 0.1' } as const;
+
+/** Reads `--ledger-wait` in seconds into milliseconds. Throws CodeweirError CW_USAGE for anything but a number of 0 or more. */
+export function ledgerWaitMs(v: unknown): number | undefined {
+  if (v === undefined) return undefined;
+  const s = Number(v);
+  if (!Number.isFinite(s) || s < 0) throw new CodeweirError('CW_USAGE', `--ledger-wait takes a number of seconds (0 or more), got ${String(v)}.`);
+  return s * 1000;
+}
+
+/** `--drift-p` and `--drift-psi`, validated. */
+export async function thresholdsOf(args: Record<string, unknown>): Promise<DriftThresholds> {
+  const { normalizeThresholds } = await import('@codeweir/ledger');
+  return normalizeThresholds({ p: args['drift-p'], psi: args['drift-psi'] });
+}
+
+export interface ReadArgs {
+  delimiter?: string;
+  encoding?: string;
+  maxFieldBytes?: number;
+}
+
+/**
+ * The snapshot of a checked delivery file: the check's counts and retained columns, the file's
+ * content hash and its records (a second pass over the file, for record ids and cell hashes).
+ * Cost: the hash and the records pass, each one read of the file. Throws what the reader throws.
+ */
+export async function snapshotOfResult(result: CheckResult, codebook: CompiledCodebook, path: string, name: string, input: InputFormat, read: ReadArgs): Promise<DeliverySnapshot> {
+  const [{ snapshotFromCheck, readRecords, fileHash }, { openAnyDelivery }] = await Promise.all([import('@codeweir/ledger'), import('@codeweir/read')]);
+  const delivery = await openAnyDelivery(path, { format: input.format, sheet: input.sheet, delimiter: read.delimiter, encoding: read.encoding as never, maxFieldBytes: read.maxFieldBytes });
+  const [hash, records] = await Promise.all([fileHash(path), readRecords(delivery, codebook)]);
+  const accepted = result.summary.accepted ?? (result.summary.findings.bySeverity.error ?? 0) === 0;
+  return snapshotFromCheck(result, codebook, { file: name, hash, checkedAt: new Date().toISOString(), accepted }, records);
+}
+
+/**
+ * Checks a delivery file for comparison (coded columns retained for the code counts) on
+ * `threads` threads and returns its result and snapshot. Throws what check and the reader throw.
+ */
+export async function checkForSeason(
+  path: string,
+  name: string,
+  codebook: CompiledCodebook,
+  options: Record<string, unknown> & ReadArgs,
+  input: InputFormat,
+  threads: number,
+): Promise<{ result: CheckResult; snapshot: DeliverySnapshot }> {
+  const { checkFile } = await import('@codeweir/check');
+  const opts = { ...options, retainCoded: true };
+  let result: CheckResult;
+  if (await isPlainText(path, input)) result = await checkFile(path, codebook, { ...opts, threads });
+  else {
+    const { checkTypedInput } = await import('./formats.ts');
+    result = await checkTypedInput(path, codebook, opts, input);
+  }
+  result.summary.file = name;
+  return { result, snapshot: await snapshotOfResult(result, codebook, path, name, input, options) };
+}
+
+export interface LedgerStep {
+  append: AppendResult;
+  /** This delivery against the one recorded before it; null for the first delivery. */
+  comparison: Comparison | null;
+  /** Deliveries in the ledger after the write. */
+  deliveries: number;
+  /** With a group item: its codes' trend across every delivery of the ledger. */
+  trend: History['groups'] | null;
+}
+
+/**
+ * Appends a snapshot to the ledger (one transaction) and compares it with the delivery
+ * recorded before it, when there is one. Returns the append result and the comparison.
+ * Throws CodeweirError from the ledger (busy, unreadable, not a ledger).
+ */
+export async function recordInLedger(
+  ledgerPath: string,
+  snapshot: DeliverySnapshot,
+  waitMs: number | undefined,
+  thresholds: DriftThresholds,
+  groupItem?: string,
+): Promise<LedgerStep> {
+  const { Ledger, compareSnapshots, ledgerHistory } = await import('@codeweir/ledger');
+  const ledger = await Ledger.open(ledgerPath, waitMs === undefined ? {} : { waitMs });
+  try {
+    const append = await ledger.append(snapshot);
+    let comparison: Comparison | null = null;
+    if (append.previous) {
+      const before = await ledger.snapshot(append.previous.id);
+      comparison = compareSnapshots(before, snapshot, { thresholds, previousDelivery: append.previous.id, currentDelivery: append.delivery, ...(groupItem ? { groupItem } : {}) });
+    }
+    const trend = groupItem === undefined ? null : (await ledgerHistory(ledger, { groupItem, thresholds })).groups;
+    return { append, comparison, deliveries: (await ledger.deliveries()).length, trend };
+  } finally {
+    ledger.close();
+  }
+}
+
+/** The one-line account of a ledger write for the terminal. */
+export function ledgerLine(ledgerPath: string, r: LedgerStep): string {
+  const a = r.append;
+  if (a.duplicate) {
+    const e = a.existing!;
+    return `Ledger ${ledgerPath}: this file's content (sha256 ${e.hash.slice(0, 12)}...) is already delivery ${e.id} (${e.file}, checked ${e.checkedAt}); not counted again.\n`;
+  }
+  const head = `Ledger ${ledgerPath}: recorded as delivery ${a.delivery} of ${r.deliveries}`;
+  const c = r.comparison;
+  if (c === null) return `${head} (the first).\n`;
+  const rec = c.json.records;
+  const changes = rec ? `${rec.added} records added, ${rec.removed} removed, ${rec.changed} changed` : 'records not compared (no ids)';
+  const drift = Object.entries(c.json.items).filter(([, it]) => it.drift?.flagged).map(([n]) => n);
+  const codes = Object.entries(c.json.items).filter(([, it]) => it.newCodes.length > 0).map(([n]) => n);
+  return `${head}; since delivery ${a.previous!.id} (${a.previous!.file}): ${changes}${codes.length ? `; new codes in ${codes.join(', ')}` : ''}${drift.length ? `; drift flagged in ${drift.join(', ')}` : ''}.\n`;
+}
+
+/**
+ * The per-group change files of `--split-by` with a ledger: for each group code of `groupItem`
+ * of `codes` (the split's folders) a `changes.json` (the group's records added, removed and changed, its missing percentage and
+ * error cells before and after, each item's missing kinds before and after in the group, and the
+ * group's trend across the ledger's deliveries) and `changes.csv` (the group's record changes).
+ * `folderOf` names the folders as the split's own (`by-<item>/<code>/`). Returns [path, content]
+ * pairs to be written together. Cost: O(changes x groups). Throws nothing.
+ */
+export async function groupChangeFiles(dir: string, groupItem: string, codes: readonly string[], step: LedgerStep, folderOf: (code: string) => string): Promise<Array<[string, string]>> {
+  const { recordsCsv } = await import('@codeweir/ledger');
+  const files: Array<[string, string]> = [];
+  const c = step.comparison;
+  for (const code of codes) {
+    const items: Record<string, unknown> = {};
+    if (c) for (const [name, it] of Object.entries(c.json.items)) if (it.missingByGroup[code]) items[name] = { missing: it.missingByGroup[code] };
+    const doc = {
+      groupItem,
+      group: code,
+      previous: c?.json.previous ?? null,
+      current: c?.json.current ?? null,
+      ...(c?.json.groups[code] ?? {}),
+      items,
+      trend: step.trend?.[code] ?? [],
+    };
+    const base = join(dir, `by-${folderOf(groupItem)}`, folderOf(code));
+    files.push([join(base, 'changes.json'), JSON.stringify(doc, null, 2) + '\n']);
+    files.push([join(base, 'changes.csv'), recordsCsv((c?.changes ?? []).filter((x) => x.groups[groupItem] === code), [groupItem])]);
+  }
+  return files;
+}
