@@ -1,9 +1,10 @@
-import type { CheckResult } from '@codeweir/check';
+import type { CheckResult, CheckSummary } from '@codeweir/check';
 import type { DescribeResult } from '@codeweir/describe';
 import type { CompiledCodebook, CompiledItem } from '@codeweir/codebook';
 import { escapeHtml as esc } from './escape.ts';
 import type { ChartDef } from './vega.ts';
 import { MAX_SCATTER_POINTS } from './data.ts';
+import { commonWithheld } from './glossary.ts';
 
 /** What {@link renderReport} reads. */
 export interface ReportInput {
@@ -26,15 +27,55 @@ export interface ReportOptions {
   maxScatterPoints?: number;
   /** Pairs drawn as cards with charts; every pair stays in the overview table. Default 60. */
   maxPairCards?: number;
+  /**
+   * The group item whose codes make the first screen's table of field teams. Default: the
+   * codebook's first group item. Throws CodeweirError CW_USAGE when it is not a group item.
+   */
+  groupBy?: string;
+  /** Links from the field-team table to one page per code (set by renderSplitReport). */
+  pages?: PageLinks;
+  /** Set on a field team's own page: which team it is and the whole delivery to compare with. */
+  team?: TeamScope;
 }
+
+/** Where the pages of a split report are, relative to the page that links to them. */
+export interface PageLinks {
+  /** The index page of the team pages. */
+  index: string;
+  /** Group code text -> that code's page. */
+  byCode: Record<string, string>;
+}
+
+/** What a field team's page knows beyond its own rows. */
+export interface TeamScope {
+  /** The group item the delivery was split by. */
+  group: string;
+  /** The group code text (check's group key), or UNASSIGNED for rows without a valid code. */
+  code: string;
+  /** How the team is named on the page: its label and code. */
+  name: string;
+  /** The whole delivery's check summary, for the comparisons. */
+  whole: CheckSummary;
+  /** Link back to the main report and to the index of team pages. */
+  main: string;
+  index: string;
+  /** Findings of the whole delivery that belong to no row (header, whole-column findings). */
+  fileFindings: number;
+  /** Set when the findings log keeps only part of some rule's findings: says which, for the page. */
+  capped?: string;
+}
+
+type Defaulted = 'findingsPerRule' | 'nominalOrder' | 'maxScatterPoints' | 'maxPairCards';
 
 export interface Ctx {
   input: ReportInput;
-  options: Required<ReportOptions>;
+  options: Required<Pick<ReportOptions, Defaulted>> & Omit<ReportOptions, Defaulted>;
   charts: ChartDef[];
   /** Queues a chart and returns the placeholder that the rendered SVG replaces. */
   chart(def: Omit<ChartDef, 'id'>): string;
   item(name: string): CompiledItem | undefined;
+  /** What the glossary says once for every card: the withheld statistics each level group shares. */
+  glossary: { withheld: Map<string, Map<string, string>> };
 }
 
 export function createCtx(input: ReportInput, options: ReportOptions = {}): Ctx {
@@ -42,7 +83,8 @@ export function createCtx(input: ReportInput, options: ReportOptions = {}): Ctx 
   return {
     input,
     options: {
-      findingsPerRule: options.findingsPerRule ?? 5,
+      ...options,
+      findingsPerRule: options.findingsPerRule ?? (options.team ? 200 : 5),
       nominalOrder: options.nominalOrder ?? 'code',
       maxScatterPoints: options.maxScatterPoints ?? MAX_SCATTER_POINTS,
       maxPairCards: options.maxPairCards ?? 60,
@@ -54,6 +96,7 @@ export function createCtx(input: ReportInput, options: ReportOptions = {}): Ctx 
       return `<!--chart:${id}-->`;
     },
     item: (name) => input.codebook.byName.get(name),
+    glossary: { withheld: commonWithheld(input.describe.items) },
   };
 }
 

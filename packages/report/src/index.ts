@@ -1,5 +1,7 @@
 export { renderReport, CONTENT_SECURITY_POLICY } from './report.ts';
-export type { ReportInput, ReportOptions } from './context.ts';
+export { renderSplitReport, splitCheck, splitLayout, type SplitReport, type SplitReportOptions, type SplitLayout, type TeamPart } from './split.ts';
+export { UNASSIGNED, teamRows, type TeamRow } from './teams.ts';
+export type { ReportInput, ReportOptions, PageLinks, TeamScope } from './context.ts';
 export { escapeHtml } from './escape.ts';
 export { formatNumber, formatPercent, formatP } from './format.ts';
 export { PALETTE, CATEGORY_COLOURS, SEQUENTIAL, orderedColours, categoryColours } from './palette.ts';

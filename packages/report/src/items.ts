@@ -7,6 +7,8 @@ import { type Ctx, table, figure, itemText } from './context.ts';
 import { barChart, boxPlot, histogram, type Bar } from './charts.ts';
 import { histogramSorted, sortedValid, type Histogram } from '@codeweir/stats';
 import { boxFromValues, columnValues } from './data.ts';
+import { sparkBars } from './spark.ts';
+import { conventionLines, levelGroup, particularConventions, particularWithheld, withheldAnchor, withheldLines } from './glossary.ts';
 
 /** Display keys for categories: the label, with the code added where labels repeat (vega groups by key). */
 export function categoryKeys(positions: ReadonlyArray<Pick<OrdinalPosition, 'code' | 'label'>>): string[] {
@@ -15,12 +17,51 @@ export function categoryKeys(positions: ReadonlyArray<Pick<OrdinalPosition, 'cod
   return positions.map((p) => (p.label === '' || (seen.get(p.label) ?? 0) > 1 ? `${p.label} [${String(p.code)}]` : p.label));
 }
 
+/**
+ * The items as an index first: one row per codebook item with its level, valid n, missing and
+ * invalid counts and a small chart; each described item's row opens (a `details` element, no
+ * script) to its card. Items without a summary (the id, free text) are rows without a card.
+ */
 export function itemsSection(ctx: Ctx): string {
   const items = ctx.input.describe.items;
-  const ordered = ctx.input.codebook.items.map((i) => i.name).filter((n) => items[n] !== undefined);
+  const tallies = ctx.input.check.summary.items;
+  const ordered = ctx.input.codebook.items.map((i) => i.name).filter((n) => items[n] !== undefined || tallies[n] !== undefined);
   for (const n of Object.keys(items)) if (!ordered.includes(n)) ordered.push(n);
-  const cards = ordered.map((n, k) => itemCard(ctx, n, items[n]!, k)).join('');
-  return `<section id="items"><h2 class="section-title">Items</h2><div class="cards">${cards}</div></section>`;
+  const head = `<div class="row head" aria-hidden="true"><span></span><span>item</span><span>label</span><span>level</span><span class="num">valid n</span><span class="num">missing</span><span class="num">invalid</span><span>distribution</span></div>`;
+  const rows = ordered.map((n, k) => (items[n] ? itemEntry(ctx, n, items[n]!, k) : plainRow(ctx, n))).join('');
+  return `<section id="items"><h2 class="section-title">Items</h2>
+<p class="note">Every item of the codebook in codebook order. Open a row for its card: chart, statistics and frequencies. Missing counts every missing cell (blank or a declared missing code); invalid cells are findings.</p>
+<div class="index items">${head}${rows}</div></section>`;
+}
+
+const missingOf = (m: ItemDescription['missing']) => Object.values(m).reduce<number>((a, b) => a + (b ?? 0), 0);
+
+function rowCells(name: string, label: string, level: string, n: number, missing: number, invalid: number, spark: string): string {
+  return `<span class="mark"></span><span><code>${esc(name)}</code></span><span>${esc(label)}</span><span class="lvl">${esc(level)}</span><span class="num">${num(n)}</span><span class="num">${num(missing)}</span><span class="num${invalid > 0 ? ' n-error' : ''}">${num(invalid)}</span><span>${spark}</span>`;
+}
+
+function plainRow(ctx: Ctx, name: string): string {
+  const item = ctx.item(name);
+  const t = ctx.input.check.summary.items[name]!;
+  const level = item?.role === 'id' ? 'id' : (item?.level ?? 'text');
+  const why = item?.role === 'id' ? 'the record id: checked, not summarised' : 'free text: checked, not summarised';
+  return `<div class="row plain-row" title="${esc(why)}">${rowCells(name, item?.label ?? '', level, t.valid, missingOf(t.missing), t.invalid, `<span class="note">${esc(why.split(':')[0]!)}</span>`)}</div>`;
+}
+
+/** The index row's small chart: bars for categories, a histogram for quantities. */
+function sparkOf(ctx: Ctx, name: string, d: ItemDescription): string {
+  const item = ctx.item(name);
+  if (d.frequencies && d.frequencies.length > 0) {
+    const freqs = orderedFrequencies(ctx, d, item);
+    return sparkBars(freqs.map((f) => f.count), `${name}: ${freqs.length} categories, ${d.n} valid cells`, false);
+  }
+  const hist = d.histogram ?? histogramOf(columnValues(ctx.input.check.store, name));
+  return hist ? sparkBars(hist.counts, `${name}: histogram of ${d.n} valid values in ${hist.counts.length} bins`, true) : '';
+}
+
+function itemEntry(ctx: Ctx, name: string, d: ItemDescription, k: number): string {
+  const summary = `<summary class="row">${rowCells(name, d.label, d.level, d.n, missingOf(d.missing), d.invalid, sparkOf(ctx, name, d))}</summary>`;
+  return `<details class="entry" id="item-${k + 1}">${summary}${itemCard(ctx, name, d, k)}</details>`;
 }
 
 function itemCard(ctx: Ctx, name: string, d: ItemDescription, k: number): string {
@@ -36,11 +77,22 @@ function itemCard(ctx: Ctx, name: string, d: ItemDescription, k: number): string
   const absent = ctx.input.check.summary.items[name]?.absent ? '<p class="note">The delivery has no column for this item.</p>' : '';
   const charts = d.level === 'nominal' || d.level === 'ordinal' ? categoricalChart(ctx, name, d, item) : d.level === 'interval' || d.level === 'ratio' ? continuousCharts(ctx, name, d) : '';
   const freq = d.frequencies && d.frequencies.length > 0 ? `<h4>Frequencies</h4>${frequencyTable(d, orderedFrequencies(ctx, d, item))}` : '';
-  return `<article class="card" id="item-${k + 1}" aria-labelledby="item-${k + 1}-h">
+  return `<article class="card" aria-labelledby="item-${k + 1}-h">
 <header><h3 id="item-${k + 1}-h"><code>${esc(name)}</code></h3><span class="label">${esc(d.label)}</span><span class="tags">${tags}</span></header>
-${question}${absent}${charts}<div class="stats"><div><h4>Statistics</h4>${statisticsTable(ctx, name, d)}</div><div>${withheldList(d)}${conventionsList(ctx, d)}</div></div>${
+${question}${absent}${charts}<div class="stats"><div><h4>Statistics</h4>${statisticsTable(ctx, name, d)}</div><div>${particulars(ctx, d)}</div></div>${
     d.outlierNote ? `<p class="note">${esc(d.outlierNote)}</p>` : ''
   }${freq}</article>`;
+}
+
+/** What the card says beyond the glossary: withheld statistics and conventions of this item only. */
+function particulars(ctx: Ctx, d: ItemDescription): string {
+  const group = levelGroup(d);
+  const withheld = particularWithheld(ctx, d);
+  const conventions = particularConventions(ctx, d.conventions);
+  const see = `<p class="see">Conventions and the statistics withheld from ${esc(group)} items: <a href="#${withheldAnchor(group)}">glossary</a>.</p>`;
+  return `${see}${withheld.length > 0 ? `<h4>Also withheld here</h4><ul class="plain withheld">${withheldLines(withheld)}</ul>` : ''}${
+    conventions.length > 0 ? `<h4>Conventions of this item</h4><ul class="plain conventions">${conventionLines(conventions)}</ul>` : ''
+  }`;
 }
 
 /** Frequencies in the order the chart and table use: scale order (ordinal), code or frequency order (nominal). */
@@ -202,28 +254,4 @@ function frequencyTable(d: ItemDescription, freqs: readonly Frequency[]): string
     ...(weighted ? [num(f.weightedCount), pct(f.weightedPercent)] : []),
   ]);
   return table({ head, rows, numeric: head.map((_, i) => i).filter((i) => i >= 2), caption: `Percent of ${d.n} valid cells; missing codes are not categories.` });
-}
-
-/** Withheld statistics grouped by reason: one line per reason, naming every statistic it covers. */
-function withheldList(d: ItemDescription): string {
-  const byReason = new Map<string, string[]>();
-  for (const [stat, why] of Object.entries(d.withheld)) {
-    let list = byReason.get(why);
-    if (!list) byReason.set(why, (list = []));
-    list.push(stat);
-  }
-  if (byReason.size === 0) return '';
-  const lines = [...byReason].map(([why, stats]) => `<li>${stats.map((s) => `<strong>${esc(s)}</strong>`).join(', ')}: ${esc(why)}</li>`);
-  return `<h4>Withheld</h4><ul class="plain withheld">${lines.join('')}</ul>`;
-}
-
-function conventionsList(ctx: Ctx, d: ItemDescription): string {
-  const lines: Array<[string, string]> = [];
-  const own = Object.entries(d.conventions ?? (d.level === 'interval' || d.level === 'ratio' ? ctx.input.describe.conventions : {}));
-  const hasQuantiles = d.median !== undefined || d.q1 !== undefined || d.medianCode !== undefined;
-  // State the quantile type even when describe gave no per-item convention for it.
-  if (hasQuantiles && !own.some(([k]) => /quantile/i.test(k))) lines.push(['quantiles', `Hyndman-Fan type ${ctx.input.describe.quantileType}`]);
-  lines.push(...own);
-  if (lines.length === 0) return '';
-  return `<h4>Conventions</h4><ul class="plain conventions">${lines.map(([k, v]) => `<li><strong>${esc(k)}</strong>: ${esc(v)}</li>`).join('')}</ul>`;
 }

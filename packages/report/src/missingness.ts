@@ -15,18 +15,19 @@ function missingTotal(t: Pick<GroupItemTally, 'missing'>): number {
   return s;
 }
 
-function cellsOf(t: GroupItemTally | ItemTally): number {
+/** Every cell of an item: valid, invalid and missing. */
+export function cellsOf(t: GroupItemTally | ItemTally): number {
   return t.valid + t.invalid + missingTotal(t);
 }
 
-/** Percent (0 to 100) of an item's cells that are missing of any kind. */
+/** Percent (0 to 100) of an item's cells that are missing other than by a valid skip. */
 export function percentMissing(t: GroupItemTally | ItemTally): number {
   const cells = cellsOf(t);
-  return cells === 0 ? 0 : (100 * missingTotal(t)) / cells;
+  return cells === 0 ? 0 : (100 * unansweredOf(t)) / cells;
 }
 
 /** Missing cells other than valid skips: a skip is the questionnaire's routing, not a gap. */
-function unansweredOf(t: GroupItemTally | ItemTally): number {
+export function unansweredOf(t: GroupItemTally | ItemTally): number {
   return missingTotal(t) - (t.missing['not-applicable'] ?? 0);
 }
 
@@ -40,19 +41,33 @@ export function missingnessSection(ctx: Ctx): string {
   const { summary } = ctx.input.check;
   const names = ctx.input.codebook.items.map((i) => i.name).filter((n) => summary.items[n] !== undefined);
   const kinds = KINDS.filter((k) => names.some((n) => (summary.items[n]!.missing[k] ?? 0) > 0));
+  const whole = ctx.options.team?.whole.items;
   const byKind = table({
-    head: ['item', 'valid', 'invalid', ...kinds, 'missing', '% missing'],
-    numeric: [1, 2, ...kinds.map((_, i) => 3 + i), 3 + kinds.length, 4 + kinds.length],
+    head: ['item', 'valid', 'invalid', ...kinds, 'missing', 'missing %', ...(whole ? ['all rows'] : [])],
+    numeric: [1, 2, ...kinds.map((_, i) => 3 + i), 3 + kinds.length, 4 + kinds.length, ...(whole ? [5 + kinds.length] : [])],
     rows: names.map((n) => {
       const t = summary.items[n]!;
-      return [itemTitle(ctx, n), num(t.valid), num(t.invalid), ...kinds.map((k) => num(t.missing[k] ?? 0)), num(missingTotal(t)), pct(percentMissing(t))];
+      const mine = percentMissing(t);
+      const all = whole?.[n] ? percentMissing(whole[n]!) : undefined;
+      const shown = all !== undefined && mine - all >= 5 ? `<span class="worse">${pct(mine)}</span>` : pct(mine);
+      return [nameWithLabel(ctx, n), num(t.valid), num(t.invalid), ...kinds.map((k) => num(t.missing[k] ?? 0)), num(missingTotal(t)), shown, ...(whole ? [pct(all)] : [])];
     }),
+    className: 'missing',
   });
   const heatmaps = Object.entries(summary.groups).map(([group, byCode]) => groupHeatmap(ctx, group, byCode, names)).join('');
   const records = recordMissing(ctx);
+  // On a team's page the table is the section's substance; on the main page the heat maps are,
+  // and the table (whose counts the item index also gives) opens on demand.
+  const open = ctx.options.team ? ' open' : '';
   return `<section id="missingness" class="block"><h2>Missingness</h2>
-<p class="note">Blank is an empty cell; the other kinds are the codebook's declared missing codes. Invalid cells are neither valid nor missing.</p>
-${byKind}${heatmaps}${records}</section>`;
+<p class="note">Blank is an empty cell; the other kinds are the codebook's declared missing codes. Invalid cells are neither valid nor missing. Missing % leaves out valid skips (not-applicable), which follow the routing${ctx.options.team ? '; all rows: the same for the whole delivery, in orange where the team is 5 points or more above it' : ''}.</p>
+${heatmaps ? `<div class="heatmaps">${heatmaps}</div>` : ''}<details class="table"${open}><summary>Missing cells by kind, item by item</summary>${byKind}</details>${records}</section>`;
+}
+
+/** The item's name in code style, its label as the hover title: for wide tables of many items. */
+function nameWithLabel(ctx: Ctx, name: string): string {
+  const label = ctx.item(name)?.label;
+  return label ? `<code title="${esc(label)}">${esc(name)}</code>` : `<code>${esc(name)}</code>`;
 }
 
 function groupHeatmap(ctx: Ctx, group: string, byCode: Record<string, Record<string, GroupItemTally>>, names: readonly string[]): string {
@@ -92,15 +107,16 @@ function groupHeatmap(ctx: Ctx, group: string, byCode: Record<string, Record<str
       }),
     ]),
   });
-  return `<h3>By ${itemTitle(ctx, group)}</h3>${figure(
+  return `<div class="heatmap"><h3>By ${itemTitle(ctx, group)}</h3>${figure(
     ctx,
     missingHeatmap(title, description, rows, columns, cells),
-    'Cells show the percent of cells missing other than by a valid skip (not-applicable), which follows the routing; hover a cell for the counts. The shading runs from 0 to the largest percent (at least 10). Free-text items are left out of the picture.',
+    'Percent of cells missing other than by a valid skip; shading from 0 to the largest percent (at least 10). Hover a cell for its counts. Free-text items are left out.',
     alt,
-  )}`;
+  )}</div>`;
 }
 
-function isFreeText(ctx: Ctx, name: string): boolean {
+/** A text item without codes (not the id): blank by design on most rows. */
+export function isFreeText(ctx: Pick<Ctx, 'item'>, name: string): boolean {
   const item = ctx.item(name);
   return item !== undefined && item.type === 'text' && item.codes.length === 0 && item.role !== 'id';
 }
@@ -110,5 +126,5 @@ function recordMissing(ctx: Ctx): string {
   if (!rm || rm.length === 0) return '';
   const total = rm.reduce((a, b) => a + b, 0);
   const rows = rm.map((count, k) => [num(k), num(count), pct(total === 0 ? 0 : (100 * count) / total)]).filter((_, k) => rm[k]! > 0);
-  return `<h3>Records by number of items missing</h3>${table({ head: ['items missing', 'records', '% of records'], numeric: [0, 1, 2], rows })}`;
+  return `<details class="table"><summary>Records by number of items missing</summary>${table({ head: ['items missing', 'records', '% of records'], numeric: [0, 1, 2], rows })}</details>`;
 }

@@ -6,40 +6,61 @@ import { type Ctx, table, figure, itemTitle, itemText } from './context.ts';
 import { boxPlot, conditionalBars, scatter, type Box, type BoxPoint, type Segment } from './charts.ts';
 import { boxFromValues, pairPoints, pointsAtRows, thin, valuesByCode } from './data.ts';
 import { categoryKeys } from './items.ts';
+import { conventionLines } from './glossary.ts';
 
+/**
+ * The pairs as an index: one row per pair with its kind, n and headline association; the
+ * first `maxPairCards` rows open (a `details` element) to the pair's card, the rest are listed
+ * in a table of their own, collapsed.
+ */
 export function pairsSection(ctx: Ctx): string {
   const pairs = ctx.input.describe.pairs;
   if (pairs.length === 0) return '';
   const cap = ctx.options.maxPairCards;
   const shown = pairs.slice(0, cap);
-  const more = pairs.length > cap ? `<p class="note">${esc(`The first ${cap} of ${pairs.length} pairs are drawn below; the table lists them all.`)}</p>` : '';
-  return `<section id="pairs"><h2 class="section-title">Pairs</h2><section class="block"><h3>Overview</h3>${more}${overview(ctx, pairs)}</section><div class="cards">${shown.map((p, k) => pairCard(ctx, p, k)).join('')}</div></section>`;
+  const rest = pairs.slice(cap);
+  const head = `<div class="row head" aria-hidden="true"><span></span><span>pair</span><span>kind</span><span class="num">n</span><span>association</span></div>`;
+  const more =
+    rest.length > 0
+      ? `<details class="more"><summary>${esc(`${num(rest.length)} more pairs, without charts`)}</summary>${table({
+          head: ['pair', 'kind', 'n', 'association'],
+          numeric: [2],
+          rows: rest.map((p) => [pairName(p), esc(p.kind), num(p.n), esc(association(p))]),
+          className: 'wide',
+        })}</details>`
+      : '';
+  const note = `${pairs.length === 1 ? 'One pair' : `${num(pairs.length)} pairs`}; n counts rows where both items are valid. Open a row for its chart and tables.${rest.length > 0 ? ` The first ${num(cap)} have cards.` : ''}`;
+  return `<section id="pairs"><h2 class="section-title">Pairs</h2><p class="note">${esc(note)}</p>
+<div class="index pairs">${head}${shown.map((p, k) => pairEntry(ctx, p, k)).join('')}</div>${more}</section>`;
 }
 
-/** One line per pair: kind, n and its headline association statistic. */
-function overview(ctx: Ctx, pairs: readonly PairDescription[]): string {
-  const cap = ctx.options.maxPairCards;
-  const rows = pairs.map((p, k) => {
-    const name = `<code>${esc(p.x)}</code> &times; <code>${esc(p.y)}</code>`;
-    const link = k < cap ? `<a href="#pair-${k + 1}">${name}</a>` : name;
-    const stat =
-      p.kind === 'categorical-categorical'
-        ? `Cramer's V ${num(p.cramersV)}, chi-square ${num(p.chiSquare)} (df ${num(p.df)}, p ${formatP(p.p)})`
-        : p.kind === 'continuous-continuous'
-          ? `Pearson's r ${num(p.pearson)}, Spearman's rho ${num(p.spearman)}, ${num(p.bivariateOutliers.length)} bivariate outliers`
-          : `eta squared ${num(p.etaSquared)} over ${num(p.groups.length)} groups`;
-    return [link, esc(p.kind), num(p.n), esc(stat)];
-  });
-  return table({ head: ['pair', 'kind', 'n', 'association'], numeric: [2], rows, className: 'wide' });
+function pairName(p: PairDescription): string {
+  return `<code>${esc(p.x)}</code> &times; <code>${esc(p.y)}</code>`;
 }
 
-function pairCard(ctx: Ctx, p: PairDescription, k: number): string {
+/** The pair's headline association statistic, in words. */
+function association(p: PairDescription): string {
+  return p.kind === 'categorical-categorical'
+    ? `Cramer's V ${num(p.cramersV)}, chi-square ${num(p.chiSquare)} (df ${num(p.df)}, p ${formatP(p.p)})`
+    : p.kind === 'continuous-continuous'
+      ? `Pearson's r ${num(p.pearson)}, Spearman's rho ${num(p.spearman)}, ${num(p.bivariateOutliers.length)} bivariate outliers`
+      : `eta squared ${num(p.etaSquared)} over ${num(p.groups.length)} groups`;
+}
+
+function pairEntry(ctx: Ctx, p: PairDescription, k: number): string {
+  const summary = `<summary class="row"><span class="mark"></span><span>${pairName(p)}</span><span class="lvl">${esc(p.kind)}</span><span class="num">${num(p.n)}</span><span>${esc(association(p))}</span></summary>`;
+  return `<details class="entry" id="pair-${k + 1}">${summary}${pairCard(ctx, p)}</details>`;
+}
+
+function pairCard(ctx: Ctx, p: PairDescription): string {
   const body = p.kind === 'categorical-categorical' ? categorical(ctx, p) : p.kind === 'continuous-continuous' ? continuous(ctx, p) : mixed(ctx, p);
-  const conv = Object.entries(p.conventions ?? {});
-  const conventions = conv.length > 0 ? `<h4>Conventions</h4><ul class="plain conventions">${conv.map(([c, v]) => `<li><strong>${esc(c)}</strong>: ${esc(v)}</li>`).join('')}</ul>` : '';
-  // A contingency table wider than a few columns gets the whole row of the grid.
-  const span = p.kind === 'categorical-categorical' && p.columns.length > 4 ? ' span' : '';
-  return `<article class="card${span}" id="pair-${k + 1}"><header><h3>${itemTitle(ctx, p.x)} &times; ${itemTitle(ctx, p.y)}</h3><span class="tags"><span class="tag">${esc(p.kind)}</span><span class="tag">n = ${num(p.n)} (both valid)</span></span></header>${body}${conventions}</article>`;
+  // Pair conventions are listed in the glossary under the pair kind; the card names only others.
+  const all = ctx.input.describe.conventions;
+  const own = Object.entries(p.conventions ?? {}).filter(([c, v]) => all[`${p.kind} ${c}`] !== v && all[c] !== v);
+  const conventions = `<p class="see">Conventions of ${esc(p.kind)} pairs: <a href="#conventions">glossary</a>.</p>${
+    own.length > 0 ? `<h4>Conventions of this pair</h4><ul class="plain conventions">${conventionLines(own)}</ul>` : ''
+  }`;
+  return `<article class="card"><header><h3>${itemTitle(ctx, p.x)} &times; ${itemTitle(ctx, p.y)}</h3><span class="tags"><span class="tag">${esc(p.kind)}</span><span class="tag">n = ${num(p.n)} (both valid)</span></span></header>${body}${conventions}</article>`;
 }
 
 function statList(rows: Array<[string, string | undefined]>): string {
@@ -61,8 +82,14 @@ function categorical(ctx: Ctx, p: PairCategorical): string {
   const chart = figure(ctx, conditionalBars(title, description, rowKeys, colKeys, segments, ys, yOrdinal), `Each bar is one category of ${p.x} and sums to 100%: the shares of ${p.y} within it (row percents). The contingency table below is this chart's table.`);
   const rowTotals = p.table.map((r) => r.reduce((a, b) => a + b, 0));
   const colTotals = p.columns.map((_, j) => p.table.reduce((a, r) => a + (r[j] ?? 0), 0));
-  const cell = (i: number, j: number) =>
-    `${num(p.table[i]![j]!)}<span class="sub">row ${pct(p.rowPercent[i]?.[j])}</span><span class="sub">col ${pct(p.columnPercent[i]?.[j])}</span><span class="sub">cell ${pct(p.cellPercent[i]?.[j])}</span>`;
+  const cell = (i: number, j: number) => `${num(p.table[i]![j]!)}<span class="sub">${pct(p.rowPercent[i]?.[j])}</span>`;
+  const percents = (what: readonly (readonly number[])[]) =>
+    table({
+      head: [`${p.x} \\ ${p.y}`, ...colKeys],
+      numeric: colKeys.map((_, j) => j + 1),
+      rows: rowKeys.map((rk, i) => [esc(rk), ...colKeys.map((_, j) => pct(what[i]?.[j]))]),
+      className: 'ct',
+    });
   const ct = table({
     head: [`${p.x} \\ ${p.y}`, ...colKeys, 'total'],
     numeric: [...colKeys.map((_, j) => j + 1), colKeys.length + 1],
@@ -71,7 +98,7 @@ function categorical(ctx: Ctx, p: PairCategorical): string {
       ['total', ...colTotals.map((t) => num(t)), num(p.n)],
     ],
     className: 'ct',
-    caption: 'Each cell: count, then row percent, column percent and percent of the table.',
+    caption: 'Each cell: the count, then its row percent (the share of the row category).',
   });
   const stats = statList([
     ['chi-square (Pearson, no continuity correction)', maybe(p.chiSquare)],
@@ -84,7 +111,7 @@ function categorical(ctx: Ctx, p: PairCategorical): string {
     ["Goodman-Kruskal gamma", maybe(p.gamma)],
   ]);
   const warnings = p.warnings.length > 0 ? `<ul class="plain">${p.warnings.map((w) => `<li>${esc(w)}</li>`).join('')}</ul>` : '';
-  return `${chart}<h4>Contingency table</h4>${ct}<h4>Association</h4>${stats}${warnings}`;
+  return `${chart}<h4>Contingency table</h4>${ct}<details class="alt"><summary>Column percents and percents of the table</summary><h4>Column percents</h4>${percents(p.columnPercent)}<h4>Percent of the table</h4>${percents(p.cellPercent)}</details><h4>Association</h4>${stats}${warnings}`;
 }
 
 function continuous(ctx: Ctx, p: PairContinuous): string {

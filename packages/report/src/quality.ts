@@ -1,8 +1,10 @@
 /** The check half of the report: verdict, header problems, findings, cross-item rules. */
 import type { Finding, FindingRule, FindingSeverity } from '@codeweir/check';
 import { escapeHtml as esc } from './escape.ts';
-import { formatNumber as num } from './format.ts';
-import { type Ctx, table, itemTitle } from './context.ts';
+import { formatNumber as num, formatPercent as pct } from './format.ts';
+import { rules as RULE_DEFS } from '@codeweir/check';
+import { type Ctx, table } from './context.ts';
+import { findingTarget } from './teams.ts';
 
 const plural = (n: number, one: string, many = `${one}s`) => `${num(n)} ${n === 1 ? one : many}`;
 
@@ -12,28 +14,90 @@ export function isAccepted(ctx: Ctx): boolean {
   return s.accepted ?? (s.findings.bySeverity.error ?? 0) === 0;
 }
 
+/** A rule's severity: as its findings in the log carry it, else the rule's default. */
+export function severityOf(ctx: Ctx, rule: FindingRule): FindingSeverity {
+  return ctx.input.check.findings.find((f) => f.rule === rule)?.severity ?? RULE_DEFS[rule]?.severity ?? 'error';
+}
+
+/** Rules with findings, errors first, then by count. */
+function rulesWithFindings(ctx: Ctx): FindingRule[] {
+  const byRule = ctx.input.check.summary.findings.byRule;
+  return (Object.keys(byRule) as FindingRule[])
+    .filter((r) => (byRule[r] ?? 0) > 0)
+    .sort((a, b) => SEVERITY_ORDER[severityOf(ctx, a)] - SEVERITY_ORDER[severityOf(ctx, b)] || (byRule[b] ?? 0) - (byRule[a] ?? 0) || a.localeCompare(b));
+}
+
+/**
+ * What a rule's findings hit, most first: `[item, count]` from the item tallies, or, for rules
+ * whose findings name no item (cross-item rules, ragged rows), from the findings log.
+ */
+function itemsOfRule(ctx: Ctx, rule: FindingRule): Array<[string, number]> {
+  let counts = Object.entries(ctx.input.check.summary.items).map(([name, t]): [string, number] => [name, t.findings[rule] ?? 0]);
+  if (!counts.some(([, n]) => n > 0)) {
+    const m = new Map<string, number>();
+    for (const f of ctx.input.check.findings) if (f.rule === rule) m.set(f.item, (m.get(f.item) ?? 0) + 1);
+    counts = [...m];
+  }
+  return counts.filter(([, n]) => n > 0).sort((a, b) => b[1] - a[1] || a[0].localeCompare(b[0]));
+}
+
+/** "not-a-code 23 (water_src 12, edu 11)" for the largest rules of one severity. */
+function ruleReasons(ctx: Ctx, severity: FindingSeverity, most = 3): string {
+  const byRule = ctx.input.check.summary.findings.byRule;
+  const rules = rulesWithFindings(ctx).filter((r) => severityOf(ctx, r) === severity);
+  const parts = rules.slice(0, most).map((r) => {
+    const items = itemsOfRule(ctx, r);
+    const where = items.length === 0 ? '' : ` (${items.slice(0, 2).map(([n, c]) => `${findingTarget(ctx, n)} ${num(c)}`).join(', ')}${items.length > 2 ? ', …' : ''})`;
+    return `<code>${esc(r)}</code> ${num(byRule[r] ?? 0)}${where}`;
+  });
+  if (rules.length > most) parts.push(esc(`${rules.length - most} more ${rules.length - most === 1 ? 'rule' : 'rules'}`));
+  return parts.join('; ');
+}
+
+/**
+ * The verdict and its reason: accepted or not, the counts, and the rules and items behind the
+ * errors (or the warnings to review). On a field team's page: what the team has to fix, with
+ * the delivery's own verdict beside it.
+ */
 export function verdictSection(ctx: Ctx): string {
   const { summary } = ctx.input.check;
   const errors = summary.findings.bySeverity.error ?? 0;
   const warnings = summary.findings.bySeverity.warning ?? 0;
   const info = summary.findings.bySeverity.info ?? 0;
-  const accepted = isAccepted(ctx);
-  const sentence = accepted
-    ? `No error findings in ${plural(summary.rows, 'row')}; ${plural(warnings, 'warning')} to review.`
-    : `${plural(errors, 'error')} and ${plural(warnings, 'warning')} in ${plural(summary.rows, 'row')}.`;
+  const team = ctx.options.team;
+  const accepted = team ? errors === 0 : isAccepted(ctx);
+  const rows = plural(summary.rows, 'row');
+  const badge = team ? (errors === 0 ? 'No errors' : `${plural(errors, 'error')} to fix`) : accepted ? 'Accepted' : 'Not accepted';
+  const sentence = team
+    ? `${team.name}: ${plural(errors, 'error')} and ${plural(warnings, 'warning')} in the team’s ${rows}.`
+    : accepted
+      ? `No error findings in ${rows}; ${plural(warnings, 'warning')} to review.`
+      : `${plural(errors, 'error')} and ${plural(warnings, 'warning')} in ${rows}.`;
+  const reasons: string[] = [];
+  if (errors > 0) reasons.push(`${team ? 'To fix' : 'Rejected for'}: ${ruleReasons(ctx, 'error')}.`);
+  const h = summary.header;
+  const headerProblems = h.missing.length + h.unexpected.length + h.duplicate.length;
+  if (!team && headerProblems > 0) reasons.push(esc(`Header: ${plural(headerProblems, 'column problem')} (see Header).`));
+  if (warnings > 0) reasons.push(`To review: ${ruleReasons(ctx, 'warning')}.`);
+  if (team) {
+    const whole = team.whole;
+    const wErrors = whole.findings.bySeverity.error ?? 0;
+    const wAccepted = whole.accepted ?? wErrors === 0;
+    reasons.push(esc(`The delivery as a whole is ${wAccepted ? 'accepted' : 'not accepted'} (${plural(wErrors, 'error')} in ${plural(whole.rows, 'row')}).`));
+  }
+  const capped = ctx.options.team?.capped ? `<p class="note">${esc(ctx.options.team.capped)}</p>` : '';
   const fact = (dt: string, dd: string) => `<div><dt>${esc(dt)}</dt><dd>${dd}</dd></div>`;
   const cb = ctx.input.codebook;
   return `<section id="verdict" class="block verdict ${accepted ? 'accepted' : 'rejected'}" aria-label="Verdict">
-<div class="badge">${accepted ? 'Accepted' : 'Not accepted'}</div>
-<p class="sentence">${esc(sentence)}</p>
+<div class="badge">${esc(badge)}</div>
+<div><p class="sentence">${esc(sentence)}</p>${reasons.map((r) => `<p class="reason">${r}</p>`).join('')}${capped}</div>
 <dl class="facts">${[
     fact('rows', num(summary.rows)),
-    fact('codebook', `<code>${esc(summary.codebook.codebook || cb.id)}</code>`),
-    fact('version', esc(summary.codebook.version || cb.version)),
+    ...(team ? [fact('of the delivery', pct((100 * summary.rows) / Math.max(1, team.whole.rows)))] : []),
     fact('errors', num(errors)),
     fact('warnings', num(warnings)),
     fact('info', num(info)),
-    fact('findings', num(summary.findings.total)),
+    fact('codebook', `<code>${esc(summary.codebook.codebook || cb.id)}</code> ${esc(summary.codebook.version || cb.version)}`),
   ].join('')}</dl>
 </section>`;
 }
@@ -58,6 +122,11 @@ function severityTag(s: FindingSeverity): string {
   return `<span class="sev sev-${s}">${esc(s)}</span>`;
 }
 
+/**
+ * Findings: one table by rule (severity, count, the items it hit), then each rule's first rows
+ * in a `details` element the table links to (open on a field team's page, where the rows are
+ * the work to do).
+ */
 export function findingsSection(ctx: Ctx): string {
   const { summary, findings } = ctx.input.check;
   const byRule = new Map<FindingRule, Finding[]>();
@@ -66,37 +135,24 @@ export function findingsSection(ctx: Ctx): string {
     if (!list) byRule.set(f.rule, (list = []));
     list.push(f);
   }
-  const severityOf = (rule: FindingRule): FindingSeverity => byRule.get(rule)?.[0]?.severity ?? 'error';
-  const rules = (Object.keys(summary.findings.byRule) as FindingRule[])
-    .filter((r) => (summary.findings.byRule[r] ?? 0) > 0)
-    .sort((a, b) => SEVERITY_ORDER[severityOf(a)] - SEVERITY_ORDER[severityOf(b)] || (summary.findings.byRule[b] ?? 0) - (summary.findings.byRule[a] ?? 0) || a.localeCompare(b));
-  if (rules.length === 0) return `<section id="findings" class="block"><h2>Findings</h2><p class="none">No findings.</p></section>`;
+  const rules = rulesWithFindings(ctx);
+  const team = ctx.options.team;
+  const fileNote = team && team.fileFindings > 0 ? `<p class="note">${esc(`${plural(team.fileFindings, 'finding')} of the delivery belong to no row (the header, whole columns); they are in the main report.`)}</p>` : '';
+  if (rules.length === 0) return `<section id="findings" class="block"><h2>Findings</h2><p class="none">No findings${team ? ' in the team’s rows' : ''}.</p>${fileNote}</section>`;
 
   const ruleTable = table({
-    head: ['rule', 'severity', 'findings'],
+    head: ['rule', 'severity', 'findings', 'items'],
     numeric: [2],
-    rows: rules.map((r) => [`<a href="#rule-${esc(r)}"><code>${esc(r)}</code></a>`, severityTag(severityOf(r)), num(summary.findings.byRule[r] ?? 0)]),
+    className: 'wide',
+    rows: rules.map((r) => {
+      const items = itemsOfRule(ctx, r);
+      const shown = items.slice(0, 6).map(([n, c]) => `<span class="nobr">${findingTarget(ctx, n)} ${num(c)}</span>`).join(', ');
+      return [`<a href="#rule-${esc(r)}"><code>${esc(r)}</code></a>`, severityTag(severityOf(ctx, r)), num(summary.findings.byRule[r] ?? 0), items.length > 6 ? `${shown}, and ${num(items.length - 6)} more` : shown];
+    }),
   });
 
-  const items = Object.entries(summary.items).filter(([, t]) => Object.values(t.findings).some((n) => (n ?? 0) > 0));
-  const itemTable =
-    items.length === 0
-      ? ''
-      : `<h3>By item</h3>${table({
-          head: ['item', 'invalid cells', 'findings by rule'],
-          className: 'wide',
-          numeric: [1],
-          rows: items.map(([name, t]) => [
-            itemTitle(ctx, name),
-            num(t.invalid),
-            Object.entries(t.findings)
-              .filter(([, n]) => (n ?? 0) > 0)
-              .map(([r, n]) => `<code>${esc(r)}</code> ${num(n ?? 0)}`)
-              .join(', '),
-          ]),
-        })}`;
-
   const cap = ctx.options.findingsPerRule;
+  const open = team ? ' open' : '';
   const firstRows = rules
     .map((r) => {
       const list = byRule.get(r) ?? [];
@@ -105,27 +161,28 @@ export function findingsSection(ctx: Ctx): string {
       const note =
         shown.length === 0
           ? 'None of these are in the findings log.'
-          : `The first ${num(shown.length)} of ${num(total)}${list.length < total ? ` (the log keeps ${num(list.length)})` : ''}.`;
+          : shown.length === total
+            ? `All ${num(total)}.`
+            : `The first ${num(shown.length)} of ${num(total)}${list.length < total ? ` (the log keeps ${num(list.length)})` : ''}.`;
       const hasSuggestion = shown.some((f) => f.suggestion !== undefined);
       const head = ['row', 'id', 'item', 'value', 'message', ...(hasSuggestion ? ['suggestion'] : [])];
       const rows = shown.map((f) => [
         f.row > 0 ? num(f.row) : '-',
-        esc(f.id),
+        `<code>${esc(f.id)}</code>`,
         `<code>${esc(f.item)}</code>`,
         `<code>${esc(f.value)}</code>`,
         esc(f.message),
         ...(hasSuggestion ? [f.suggestion === undefined ? '' : `<code>${esc(f.suggestion)}</code>`] : []),
       ]);
-      return `<div id="rule-${esc(r)}"><h4><code>${esc(r)}</code> ${severityTag(severityOf(r))}</h4><p class="note">${esc(note)}</p>${
+      return `<details class="rule" id="rule-${esc(r)}"${open}><summary><code>${esc(r)}</code> ${severityTag(severityOf(ctx, r))} ${esc(plural(total, 'finding'))}</summary><p class="note">${esc(note)}</p>${
         shown.length > 0 ? table({ head, rows, numeric: [0], className: 'wide' }) : ''
-      }</div>`;
+      }</details>`;
     })
     .join('');
 
   return `<section id="findings" class="block"><h2>Findings</h2>
-<p>${esc(`${plural(summary.findings.total, 'finding')} under ${plural(rules.length, 'rule')}.`)}</p>
-<div class="split"><div><h3>By rule</h3>${ruleTable}</div><div>${itemTable}</div></div>
-<h3>First rows of each rule</h3>${firstRows}</section>`;
+<p>${esc(`${plural(summary.findings.total, 'finding')} under ${plural(rules.length, 'rule')}${team ? ' in the team’s rows' : ''}. Rows are data rows of the delivery, the header not counted.`)}</p>${fileNote}
+${ruleTable}<h3>Rows of each rule</h3>${firstRows}</section>`;
 }
 
 export function rulesSection(ctx: Ctx): string {

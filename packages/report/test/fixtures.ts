@@ -123,9 +123,10 @@ function store(ageName: string): ColumnStore {
 
 function check(w: Words, accepted: boolean): CheckResult {
   const findings: Finding[] = [
-    { row: 4, id: w.findingId, item: w.ageName, value: w.findingValue, rule: 'not-a-number', severity: 'error', message: w.findingMessage },
-    { row: 9, id: 'H-0009', item: w.ageName, value: '91', rule: 'outlier', severity: 'info', message: '91 in age lies beyond the inner fence.' },
-    { row: 7, id: 'H-0007', item: 'trips', value: '6', rule: 'unbinned-value', severity: 'error', message: 'trips is binned but holds the raw quantity 6.', suggestion: '3' },
+    // `groups` is the row's team code (TEAM below): rows 4, 7 and 9 are in teams 1, 2 and 3.
+    { row: 4, id: w.findingId, item: w.ageName, value: w.findingValue, rule: 'not-a-number', severity: 'error', message: w.findingMessage, groups: { team: '1' } },
+    { row: 9, id: 'H-0009', item: w.ageName, value: '91', rule: 'outlier', severity: 'info', message: '91 in age lies beyond the inner fence.', groups: { team: '3' } },
+    { row: 7, id: 'H-0007', item: 'trips', value: '6', rule: 'unbinned-value', severity: 'error', message: 'trips is binned but holds the raw quantity 6.', suggestion: '3', groups: { team: '2' } },
   ];
   const errors = accepted ? 0 : 2;
   const shown = accepted ? findings.filter((f) => f.severity !== 'error') : findings;

@@ -14,12 +14,12 @@ beforeAll(async () => {
   ]);
 });
 
-/** The HTML of one item card, found by the item name in its heading. */
+/** The HTML of one item's index entry and card (a details element), found by the item name. */
 function card(html: string, name: string): string {
-  const cards = html.split('<article class="card" id="item-').slice(1);
+  const cards = html.split('<details class="entry" id="item-').slice(1);
   const found = cards.find((c) => c.includes(`<h3 id="item-${c.split('"')[0]}-h"><code>${escapeHtml(name)}</code></h3>`));
   if (!found) throw new Error(`no card for ${name}`);
-  return found.split('</article>')[0]!;
+  return found.split('</section>')[0]!.split('<div class="row plain-row"')[0]!;
 }
 
 /**
@@ -41,7 +41,8 @@ function chartTitles(html: string): string[] {
 
 /** Category labels of the first chart's y axis in `html`, top to bottom (vega's document order). */
 function axisLabels(html: string): string[] {
-  const svg = html.slice(html.indexOf('<svg id="chart-'), html.indexOf('</svg>') + 6);
+  const start = html.indexOf('<svg id="chart-');
+  const svg = html.slice(start, html.indexOf('</svg>', start) + 6);
   const yAxis = svg.slice(svg.indexOf('aria-label="Y-axis'));
   const labels = yAxis.slice(yAxis.indexOf('role-axis-label'));
   return [...labels.slice(0, labels.indexOf('</g>')).matchAll(/<text[^>]*>([^<]*)<\/text>/g)].map((m) => m[1]!);
@@ -86,10 +87,14 @@ describe('page shell', () => {
 
 describe('sections', () => {
   it('has every section for a delivery with findings, rules, groups and pairs', () => {
-    for (const id of ['verdict', 'header', 'findings', 'rules', 'missingness', 'items', 'pairs', 'conventions']) {
+    for (const id of ['teams', 'header', 'findings', 'rules', 'field-teams', 'missingness', 'items', 'pairs', 'glossary']) {
       expect(plain).toContain(`id="${id}"`);
       expect(plain).toContain(`<a href="#${id}">`);
     }
+    expect(plain).toContain('id="verdict"');
+    // The first screen comes first: the verdict, then the table of field teams.
+    expect(plain.indexOf('id="verdict"')).toBeLessThan(plain.indexOf('id="teams"'));
+    expect(plain.indexOf('id="teams"')).toBeLessThan(plain.indexOf('id="findings"'));
   });
 
   it('states the verdict with codebook id, version, rows and the error and warning counts', () => {
@@ -137,13 +142,13 @@ describe('sections', () => {
     expect(m).toContain('<title>sex in Lowmarsh [2]: 25.0% (1 of 4 cells)</title>');
     expect(m).toMatch(/<details class="alt"><summary>Table of this chart<\/summary>[^]*25\.0% <span class="note">\(1\/4\)<\/span>/);
     // Free text (remarks) is in the table by kind but not in the picture.
-    expect(m).toContain('<code>remarks</code>');
+    expect(m).toContain('<code title="Remarks">remarks</code>');
     expect(m).not.toContain('<title>remarks in');
   });
 });
 
 describe('item cards', () => {
-  it('gives each item its level, label, statistics, withheld reasons and conventions', () => {
+  it('gives each item its level, label and statistics, and links to the glossary for what its level withholds', () => {
     const age = card(plain, 'age');
     expect(age).toContain('<span class="tag level">ratio</span>');
     expect(age).toContain('<span class="label">Age</span>');
@@ -151,21 +156,41 @@ describe('item cards', () => {
     expect(age).toContain(escapeHtml(WORDS.plain.question));
     expect(age).toMatch(/<td>median<\/td><td class="num">40<\/td>/);
     expect(age).toMatch(/<td>inner fences \(1\.5 x IQR\)<\/td><td class="num">19\.25 to 61\.25<\/td>/);
-    expect(age).toContain('<li><strong>frequencies</strong>: a frequency table of a ratio item is given as a histogram</li>');
-    expect(age).toContain(`<li><strong>sd</strong>: ${escapeHtml(WORDS.plain.convention)}</li>`);
+    expect(age).toContain('<a href="#withheld-ratio">glossary</a>');
+    // The one ratio item's withheld list is its level's list: it is in the glossary, not the card.
+    expect(age).not.toContain('<strong>frequencies</strong>');
+    const glossary = plain.slice(plain.indexOf('id="glossary"'));
+    expect(glossary).toContain('<h4 id="withheld-ratio">ratio items</h4>');
+    expect(glossary).toContain('<li><strong>frequencies</strong>: a frequency table of a ratio item is given as a histogram</li>');
+    // A convention of the item that differs from the report-wide one stays on the card.
     expect(age).toContain('<li><strong>quantileType</strong>: Hyndman-Fan type 7 sample quantiles</li>');
+    expect(age).not.toContain(`<strong>sd</strong>`);
+    expect(glossary).toContain(`<li><strong>sd</strong>: ${escapeHtml(WORDS.plain.convention)}</li>`);
   });
 
-  it('groups withheld statistics that share a reason on one line', () => {
-    const team = card(plain, 'team');
-    expect(team).toContain('<li><strong>median</strong>: nominal categories have no order</li>');
-    expect(team).toContain(`<li><strong>mean</strong>: ${escapeHtml(WORDS.plain.reason)}</li>`);
-    const sex = card(plain, 'sex');
-    expect(sex).toContain('<li><strong>mean</strong>: nominal codes have no arithmetic meaning</li>');
+  it('says once in the glossary what every item of a level withholds; a card names only its own', () => {
+    const glossary = plain.slice(plain.indexOf('id="glossary"'));
+    // team and sex are both nominal and both withhold the mean for the same reason: said once.
+    expect(glossary).toContain(`<li><strong>mean</strong>: ${escapeHtml(WORDS.plain.reason)}</li>`);
+    expect(card(plain, 'team')).not.toContain('<strong>mean</strong>');
+    expect(card(plain, 'sex')).not.toContain('<strong>mean</strong>');
+    // Both withhold the median for the same reason as well: one line for the level.
+    expect(glossary).toContain('<li><strong>median</strong>: nominal categories have no order</li>');
+    expect(plain.split('nominal categories have no order').length - 1).toBe(1);
+    expect(glossary).toContain('<li><strong>quantiles</strong>: Hyndman-Fan type 7</li>');
   });
 
-  it('states the quantile type where describe gave no per-item convention for it', () => {
-    expect(card(plain, 'visit_date')).toContain('<li><strong>quantiles</strong>: Hyndman-Fan type 7</li>');
+  it('collapses every card into a row of the item index with level, n, missing, invalid and a small chart', () => {
+    const index = plain.slice(plain.indexOf('<div class="index items">'), plain.indexOf('id="pairs"'));
+    // Every codebook item is a row, in codebook order; the id has no card.
+    const names = [...index.matchAll(/<span class="mark"><\/span><span><code>([^<]+)<\/code>/g)].map((m) => m[1]);
+    expect(names).toEqual(['hh_id', 'team', 'sex', 'edu', 'age', 'visit_date', 'trips', 'remarks']);
+    expect(index).not.toContain('<details class="entry" id="item-1" open');
+    // age: 11 valid, 0 missing, 1 invalid (the fixture's tallies).
+    expect(card(plain, 'age')).toMatch(/<span class="lvl">ratio<\/span><span class="num">11<\/span><span class="num">0<\/span><span class="num n-error">1<\/span><span><svg class="spark"/);
+    // The small histogram of age has one bar per bin of its histogram (7 bins).
+    const spark = card(plain, 'age').match(/<svg class="spark"[^]*?<\/svg>/)![0];
+    expect(spark.match(/<rect /g)?.length).toBe(7);
   });
 
   it('draws one bar chart for nominal and ordinal items, histogram and box plot for interval and ratio, none for text', () => {
@@ -216,7 +241,9 @@ describe('pairs', () => {
     const pairs = plain.slice(plain.indexOf('id="pair-1"'));
     const first = pairs.slice(0, pairs.indexOf('</article>'));
     expect(chartTitles(first)).toEqual(['edu (Schooling) within each category of sex (Sex)']);
-    expect(first).toContain('2<span class="sub">row 40.0%</span><span class="sub">col 40.0%</span><span class="sub">cell 18.2%</span>');
+    // Female x Secondary: 2 of the 5 Female rows = 40% (first principles: 2 / 5).
+    expect(first).toContain('2<span class="sub">40.0%</span>');
+    expect(first).toContain('<summary>Column percents and percents of the table</summary>');
     expect(first).toContain('All 8 expected counts are below 5');
   });
 
@@ -230,7 +257,8 @@ describe('pairs', () => {
 
   it('lists every pair in the overview and draws cards only up to the cap', async () => {
     const html = await renderReport(fixture(), { maxPairCards: 1 });
-    expect(html).toContain('The first 1 of 3 pairs are drawn below; the table lists them all.');
+    expect(html).toContain('3 pairs; n counts rows where both items are valid. Open a row for its chart and tables. The first 1 have cards.');
+    expect(html).toContain('<summary>2 more pairs, without charts</summary>');
     expect(html).toContain('id="pair-1"');
     expect(html).not.toContain('id="pair-2"');
   });

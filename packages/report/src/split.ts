@@ -1,0 +1,244 @@
+/**
+ * A report split by a group item: the main report, one page per code holding only that code's
+ * rows, and an index page. A team's findings are the delivery's findings in its rows; its
+ * tallies are check's group tallies; its item summaries are `describe` run on its rows.
+ */
+import type { CheckResult, CheckSummary, ColumnStore, Finding, ItemColumn, ItemTally } from '@codeweir/check';
+import { describe, type DescribeOptionsInput } from '@codeweir/describe';
+import { CodeweirError } from '@codeweir/core';
+import { escapeHtml as esc } from './escape.ts';
+import { formatNumber as num, formatPercent as pct } from './format.ts';
+import { table, type ReportInput, type ReportOptions, type TeamScope } from './context.ts';
+import { UNASSIGNED, cappedRules, keyOfFinding, tallyByKey, teamRows, worstText, type TeamRow } from './teams.ts';
+import { renderReport } from './report.ts';
+import { pageShell } from './page.ts';
+
+/** One code's share of a checked delivery: its rows as a CheckResult of their own. */
+export interface TeamPart {
+  row: TeamRow;
+  /** 0-based rows of the delivery, ascending. */
+  rows: Uint32Array;
+  check: CheckResult;
+}
+
+/** Where each file of a split report goes, relative to the main report's folder. */
+export interface SplitLayout {
+  main: string;
+  folder: string;
+  index: string;
+  /** Group key -> page path. */
+  pages: Map<string, string>;
+}
+
+/**
+ * The file layout of a split report: `-o out/report.html --split-by team` writes
+ * `out/report.html`, `out/report-team/index.html` and `out/report-team/team-<code>.html` (one
+ * per code with rows; `team-unassigned.html` for rows without a valid code). Codes become
+ * file names with every character other than letters, digits, `-` and `_` replaced by `_`.
+ */
+export function splitLayout(mainFile: string, group: string, rows: readonly TeamRow[]): SplitLayout {
+  const stem = mainFile.replace(/\.html?$/i, '');
+  const folder = `${stem}-${group}`.replace(/[^A-Za-z0-9._-]+/g, '_');
+  const safeGroup = group.replace(/[^A-Za-z0-9_-]+/g, '_');
+  return {
+    main: mainFile,
+    folder,
+    index: `${folder}/index.html`,
+    pages: new Map(rows.filter((r) => r.rows > 0).map((r) => [r.key, `${folder}/${safeGroup}-${r.slug}.html`])),
+  };
+}
+
+/** The group key of every row, from the group item's retained column. */
+function rowKeys(input: ReportInput, group: string): (r: number) => string {
+  const item = input.codebook.byName.get(group)!;
+  const col: ItemColumn | undefined = input.check.store.columns[group];
+  if (input.check.summary.items[group]?.absent) throw new CodeweirError('CW_USAGE', `--split-by ${group}: the delivery has no column ${group}.`);
+  if (!col) throw new CodeweirError('CW_USAGE', `--split-by ${group}: ${group} is free text, so its rows cannot be told apart; split by a group item with codes or numbers.`);
+  if (col.kind === 'coded') {
+    const texts = item.codes.map((c) => c.text);
+    return (r) => (col.codes[r] === 0 ? UNASSIGNED : texts[col.codes[r]! - 1]!);
+  }
+  // check keys a numeric group cell by String() of its parsed value.
+  return (r) => (Number.isNaN(col.values[r]!) ? UNASSIGNED : String(col.values[r]!));
+}
+
+function pick(col: ItemColumn, rows: Uint32Array): ItemColumn {
+  if (col.kind === 'coded') {
+    const codes = new Uint16Array(rows.length);
+    for (let i = 0; i < rows.length; i++) codes[i] = col.codes[rows[i]!]!;
+    return { kind: 'coded', item: col.item, codes };
+  }
+  const values = new Float64Array(rows.length);
+  for (let i = 0; i < rows.length; i++) values[i] = col.values[rows[i]!]!;
+  return { kind: 'numeric', item: col.item, values };
+}
+
+function findingTotals(findings: readonly Finding[]): CheckSummary['findings'] {
+  const byRule: CheckSummary['findings']['byRule'] = {};
+  const bySeverity: CheckSummary['findings']['bySeverity'] = { error: 0, warning: 0, info: 0 };
+  for (const f of findings) {
+    byRule[f.rule] = (byRule[f.rule] ?? 0) + 1;
+    bySeverity[f.severity] = (bySeverity[f.severity] ?? 0) + 1;
+  }
+  return { total: findings.length, byRule, bySeverity, logged: findings.length };
+}
+
+/**
+ * Splits a checked delivery by a group item: for every code with rows (and the rows without a
+ * valid code, as UNASSIGNED), a CheckResult of those rows only: its store holds the rows' values,
+ * its item tallies are check's group tallies for the code, its findings are the delivery's
+ * findings in those rows (row numbers stay those of the delivery; counts are of the findings
+ * log). Findings of no row (header, whole columns) belong to no part. The parts' rows add up to
+ * the delivery's. Cost: O(rows x retained items + findings). Throws CodeweirError CW_USAGE when
+ * `group` is not a group item or has no retained column.
+ */
+export function splitCheck(input: ReportInput, group: string): TeamPart[] {
+  const item = input.codebook.byName.get(group);
+  if (!item || item.role !== 'group') {
+    const groups = input.codebook.groupItems.map((g) => g.name);
+    throw new CodeweirError('CW_USAGE', `--split-by takes a group item, got ${JSON.stringify(group)}; ${groups.length > 0 ? `the codebook's group items are ${groups.join(', ')}` : 'the codebook has no group item (role "group")'}.`);
+  }
+  const ctx = { input, item: (n: string) => input.codebook.byName.get(n) };
+  const keyOf = rowKeys(input, group);
+  const whole = input.check;
+  const byKey = new Map<string, number[]>();
+  for (let r = 0; r < whole.store.rows; r++) {
+    const k = keyOf(r);
+    let list = byKey.get(k);
+    if (!list) byKey.set(k, (list = []));
+    list.push(r);
+  }
+  const tallies = tallyByKey(ctx, group);
+  const findingsOf = new Map<string, Finding[]>();
+  for (const f of whole.findings) {
+    const k = keyOfFinding(f, group);
+    if (k === undefined) continue;
+    let list = findingsOf.get(k);
+    if (!list) findingsOf.set(k, (list = []));
+    list.push(f);
+  }
+  return teamRows(ctx, group)
+    .filter((row) => (byKey.get(row.key)?.length ?? 0) > 0)
+    .map((row) => {
+      const rows = Uint32Array.from(byKey.get(row.key)!);
+      const findings = findingsOf.get(row.key) ?? [];
+      const perItem = tallies.get(row.key) ?? {};
+      const items: Record<string, ItemTally> = {};
+      for (const [name, t] of Object.entries(whole.summary.items)) {
+        const g = perItem[name];
+        const own: ItemTally['findings'] = {};
+        for (const f of findings) if (f.item === name) own[f.rule] = (own[f.rule] ?? 0) + 1;
+        items[name] = { valid: g?.valid ?? 0, invalid: g?.invalid ?? 0, missing: { ...(g?.missing ?? {}) }, findings: own, ...(t.absent ? { absent: true } : {}) };
+      }
+      const columns: ColumnStore['columns'] = {};
+      for (const [name, col] of Object.entries(whole.store.columns)) columns[name] = pick(col, rows);
+      const totals = findingTotals(findings);
+      const summary: CheckSummary = {
+        codebook: whole.summary.codebook,
+        ...(whole.summary.file !== undefined ? { file: whole.summary.file } : {}),
+        rows: rows.length,
+        header: whole.summary.header,
+        findings: totals,
+        items,
+        groups: {},
+        rules: {},
+        accepted: (totals.bySeverity.error ?? 0) === 0,
+        ...(whole.summary.quantileType !== undefined ? { quantileType: whole.summary.quantileType } : {}),
+      };
+      return { row: { ...row, rows: rows.length }, rows, check: { summary, findings, store: { rows: rows.length, columns } } };
+    });
+}
+
+/** Options of {@link renderSplitReport}. */
+export interface SplitReportOptions extends ReportOptions {
+  /** The group item to split by. */
+  splitBy: string;
+  /** The main report's file name (its folder is where the layout starts), e.g. `report.html`. */
+  mainFile: string;
+  /** Describe options for the team pages; default: the main describe's quantile type and weight. */
+  describeOptions?: DescribeOptionsInput;
+}
+
+/** The pages of a split report, each with its path relative to the main report's folder. */
+export interface SplitReport {
+  layout: SplitLayout;
+  files: Array<{ path: string; html: string }>;
+  parts: TeamPart[];
+}
+
+/**
+ * The main report with its first-screen table linked to one page per code of `splitBy`, the
+ * pages themselves (each a full report of the code's rows: its findings, missingness beside the
+ * whole delivery's, item summaries from `describe` on its rows; no pairs), and an index page.
+ * Nothing is written: the caller writes `files` together (atomically). Cost: one describe of
+ * each part plus one report per page. Throws CodeweirError CW_USAGE for a `splitBy` that is not
+ * a group item with a retained column.
+ */
+export async function renderSplitReport(input: ReportInput, options: SplitReportOptions): Promise<SplitReport> {
+  const { splitBy: group, mainFile, describeOptions, ...reportOptions } = options;
+  const parts = splitCheck(input, group);
+  const layout = splitLayout(mainFile, group, parts.map((p) => p.row));
+  const fromMain = Object.fromEntries([...layout.pages].map(([k, p]) => [k, p]));
+  const main = await renderReport(input, { ...reportOptions, groupBy: group, pages: { index: layout.index, byCode: fromMain } });
+  const capped = cappedRules({ input });
+  const fileFindings = input.check.findings.filter((f) => f.row <= 0).length;
+  const dOpts: DescribeOptionsInput = {
+    quantileType: input.describe.quantileType,
+    ...(input.describe.weight !== undefined ? { weight: input.describe.weight } : {}),
+    ...(input.describe.listwise ? { listwise: true } : {}),
+    ...describeOptions,
+    pairs: [],
+  };
+  const files: SplitReport['files'] = [{ path: layout.main, html: main }];
+  for (const part of parts) {
+    const team: TeamScope = {
+      group,
+      code: part.row.key,
+      name: part.row.name,
+      whole: input.check.summary,
+      main: `../${mainFile}`,
+      index: 'index.html',
+      fileFindings,
+      ...(capped.length > 0 ? { capped: `The findings log keeps only the first findings of ${capped.join(', ')} in the whole delivery; this page shows the logged ones in the team’s rows.` } : {}),
+    };
+    const described = describe(part.check, input.codebook, dOpts);
+    const html = await renderReport({ ...input, check: part.check, describe: described }, { ...reportOptions, team, groupBy: group });
+    files.push({ path: layout.pages.get(part.row.key)!, html });
+  }
+  files.push({ path: layout.index, html: indexPage(input, group, parts, layout) });
+  return { layout, files, parts };
+}
+
+/** The index of the team pages: one row per page with its counts, and the way back. */
+function indexPage(input: ReportInput, group: string, parts: readonly TeamPart[], layout: SplitLayout): string {
+  const cb = input.codebook;
+  const summary = input.check.summary;
+  const label = cb.byName.get(group)?.label;
+  const rows = parts.map((p) => {
+    const page = layout.pages.get(p.row.key)!.slice(layout.folder.length + 1);
+    return [
+      `<a href="${esc(page)}">${esc(p.row.name)}</a>`,
+      num(p.row.rows),
+      num(p.row.errors),
+      num(p.row.warnings),
+      pct(p.row.missingPercent),
+      worstText({ item: (n) => cb.byName.get(n) }, p.row.worst),
+    ];
+  });
+  const sum = (f: (p: TeamPart) => number) => parts.reduce((a, p) => a + f(p), 0);
+  const fileFindings = input.check.findings.filter((f) => f.row <= 0);
+  const body = `<section id="pages" class="block"><h2>${esc(`One page per ${group}${label ? ` (${label})` : ''}`)}</h2>
+${table({ head: [group, 'rows', 'errors', 'warnings', 'missing %', 'worst items'], numeric: [1, 2, 3, 4], rows, className: 'wide teams' })}
+<p class="note">${esc(
+    `The pages hold ${num(sum((p) => p.row.rows))} of the delivery's ${num(summary.rows)} rows and ${num(sum((p) => p.row.errors))} of its ${num(summary.findings.bySeverity.error ?? 0)} errors` +
+      (fileFindings.length > 0 ? `; ${num(fileFindings.length)} findings belong to no row (header, whole columns) and are in the main report.` : '.'),
+  )}</p></section>`;
+  return pageShell({
+    title: `${cb.title || cb.id}: pages by ${group}`,
+    heading: `${cb.title || cb.id}: pages by ${group}`,
+    meta: `${input.file ?? summary.file ? `Delivery <code>${esc(input.file ?? summary.file ?? '')}</code>, ` : ''}codebook <code>${esc(cb.id)}</code> version ${esc(cb.version)}`,
+    crumbs: `<a href="../${esc(layout.main)}">Main report</a>`,
+    nav: [],
+    body,
+  });
+}

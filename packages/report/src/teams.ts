@@ -1,0 +1,307 @@
+/**
+ * Field teams: the first screen's table (one row per code of a group item: errors, warnings,
+ * missing percent, worst items), one short section per team on the main page, and on a team's
+ * own page the comparison of the team with the whole delivery.
+ */
+import type { Finding, GroupItemTally } from '@codeweir/check';
+import { CodeweirError } from '@codeweir/core';
+import { escapeHtml as esc } from './escape.ts';
+import { formatNumber as num, formatPercent as pct } from './format.ts';
+import { type Ctx, table } from './context.ts';
+import { unansweredOf, cellsOf, isFreeText } from './missingness.ts';
+import { GROUP_INVALID, GROUP_MISSING } from '@codeweir/check';
+
+/** The key of rows whose group cell is missing or invalid, as one team page and one table row. */
+export const UNASSIGNED = '(unassigned)';
+
+/** One code of a group item, with its counts in the delivery. */
+export interface TeamRow {
+  /** check's group key: the code text, or UNASSIGNED. */
+  key: string;
+  /** The code's label and code, e.g. `North Reach [3]`. */
+  name: string;
+  /** Anchor and file-name stem, unique within the group item. */
+  slug: string;
+  rows: number;
+  errors: number;
+  warnings: number;
+  info: number;
+  /** Missing cells other than valid skips, over the cells of the items counted (0 to 100). */
+  missingPercent: number;
+  /** Items with the most error and warning findings in the team's rows, most first. */
+  worst: Array<[string, number]>;
+}
+
+/**
+ * The group item of the first screen: `groupBy` when given (it must be a group item), else the
+ * codebook's first group item; undefined when the codebook has none.
+ * Throws CodeweirError CW_USAGE naming the group items when `groupBy` is not one of them.
+ */
+export function chosenGroup(ctx: Pick<Ctx, 'input' | 'options'>): string | undefined {
+  const groups = ctx.input.codebook.groupItems.map((g) => g.name);
+  const want = ctx.options.groupBy;
+  if (want === undefined) return groups[0];
+  if (!groups.includes(want)) {
+    const known = groups.length > 0 ? `the codebook's group items are ${groups.join(', ')}` : 'the codebook has no group item (role "group")';
+    throw new CodeweirError('CW_USAGE', `--split-by takes a group item, got ${JSON.stringify(want)}; ${known}.`);
+  }
+  return want;
+}
+
+/** A safe, unique file-name stem for each key: letters, digits, `-` and `_` only. */
+function slugs(keys: readonly string[]): Map<string, string> {
+  const out = new Map<string, string>();
+  const used = new Set<string>();
+  for (const key of keys) {
+    const base = key === UNASSIGNED ? 'unassigned' : key.replace(/[^A-Za-z0-9_-]+/g, '_').replace(/^_+|_+$/g, '') || 'code';
+    let slug = base;
+    for (let i = 2; used.has(slug); i++) slug = `${base}-${i}`;
+    used.add(slug);
+    out.set(key, slug);
+  }
+  return out;
+}
+
+/** Sums tallies (the unassigned rows are the `(missing)` and `(invalid)` keys together). */
+function addTally(a: GroupItemTally | undefined, b: GroupItemTally): GroupItemTally {
+  if (!a) return { valid: b.valid, invalid: b.invalid, missing: { ...b.missing } };
+  const missing = { ...a.missing };
+  for (const [k, v] of Object.entries(b.missing)) missing[k as keyof typeof missing] = (missing[k as keyof typeof missing] ?? 0) + (v ?? 0);
+  return { valid: a.valid + b.valid, invalid: a.invalid + b.invalid, missing };
+}
+
+/**
+ * Each key's tallies by item for one group item, with `(missing)` and `(invalid)` joined as
+ * UNASSIGNED. Cost: O(keys x items). Throws nothing.
+ */
+export function tallyByKey(ctx: Pick<Ctx, 'input'>, group: string): Map<string, Record<string, GroupItemTally>> {
+  const byCode = ctx.input.check.summary.groups[group] ?? {};
+  const out = new Map<string, Record<string, GroupItemTally>>();
+  for (const [key, perItem] of Object.entries(byCode)) {
+    const k = key === GROUP_MISSING || key === GROUP_INVALID ? UNASSIGNED : key;
+    const into = out.get(k) ?? {};
+    for (const [item, t] of Object.entries(perItem)) into[item] = addTally(into[item], t);
+    out.set(k, into);
+  }
+  return out;
+}
+
+/** The group key of a finding's row, UNASSIGNED for a row without a valid group code, undefined for no row. */
+export function keyOfFinding(f: Finding, group: string): string | undefined {
+  const k = f.groups?.[group];
+  if (k === undefined) return undefined;
+  return k === GROUP_MISSING || k === GROUP_INVALID || k === '' ? UNASSIGNED : k;
+}
+
+/** Rows of a key: every cell of a row is tallied once per item, so any item's cells count the rows. */
+function rowsOf(perItem: Record<string, GroupItemTally>, group: string): number {
+  const t = perItem[group] ?? Object.values(perItem)[0];
+  return t ? cellsOf(t) : 0;
+}
+
+/** Missing percent of a set of tallies: valid skips not counted, free text and group items left out. */
+export function missingPercentOf(ctx: Pick<Ctx, 'input' | 'item'>, perItem: Record<string, GroupItemTally>): number {
+  let missing = 0;
+  let cells = 0;
+  for (const [name, t] of Object.entries(perItem)) {
+    const item = ctx.item(name);
+    if (item?.role === 'group' || isFreeText(ctx, name)) continue;
+    missing += unansweredOf(t);
+    cells += cellsOf(t);
+  }
+  return cells === 0 ? 0 : (100 * missing) / cells;
+}
+
+/** Rules whose findings the log keeps only in part: per-team counts of them are lower bounds. */
+export function cappedRules(ctx: Pick<Ctx, 'input'>): string[] {
+  const logged = new Map<string, number>();
+  for (const f of ctx.input.check.findings) logged.set(f.rule, (logged.get(f.rule) ?? 0) + 1);
+  return Object.entries(ctx.input.check.summary.findings.byRule)
+    .filter(([r, n]) => (logged.get(r) ?? 0) < (n ?? 0))
+    .map(([r]) => r);
+}
+
+/**
+ * One row per code of the group item, in codebook order (codes with no rows included), then the
+ * codes the codebook does not know, then the rows without a valid code. Counts of findings
+ * come from the findings log. Cost: O(findings + keys x items). Throws nothing.
+ */
+export function teamRows(ctx: Pick<Ctx, 'input' | 'item'>, group: string): TeamRow[] {
+  const groupItem = ctx.item(group);
+  const tallies = tallyByKey(ctx, group);
+  const keys = (groupItem?.codes ?? []).map((c) => c.text);
+  for (const k of tallies.keys()) if (!keys.includes(k) && k !== UNASSIGNED) keys.push(k);
+  if (tallies.has(UNASSIGNED)) keys.push(UNASSIGNED);
+  const slugOf = slugs(keys);
+  const counts = new Map<string, { error: number; warning: number; info: number; items: Map<string, number> }>();
+  for (const f of ctx.input.check.findings) {
+    const k = keyOfFinding(f, group);
+    if (k === undefined) continue;
+    let c = counts.get(k);
+    if (!c) counts.set(k, (c = { error: 0, warning: 0, info: 0, items: new Map() }));
+    c[f.severity]++;
+    if (f.severity !== 'info') c.items.set(f.item, (c.items.get(f.item) ?? 0) + 1);
+  }
+  return keys.map((key) => {
+    const perItem = tallies.get(key) ?? {};
+    const c = counts.get(key);
+    const idx = groupItem?.codeByText.get(key);
+    const name = key === UNASSIGNED ? `no valid ${group} code` : idx === undefined ? `[${key}] (not in the codebook)` : `${groupItem!.codes[idx]!.label} [${key}]`;
+    return {
+      key,
+      name,
+      slug: slugOf.get(key)!,
+      rows: rowsOf(perItem, group),
+      errors: c?.error ?? 0,
+      warnings: c?.warning ?? 0,
+      info: c?.info ?? 0,
+      missingPercent: missingPercentOf(ctx, perItem),
+      worst: [...(c?.items ?? [])].sort((a, b) => b[1] - a[1] || a[0].localeCompare(b[0])).slice(0, 3),
+    };
+  });
+}
+
+/** The anchor of a team's section on the main page. */
+export function teamAnchor(group: string, slug: string): string {
+  return `team-${group}-${slug}`.replace(/[^A-Za-z0-9_-]+/g, '_');
+}
+
+/** What a finding's `item` names: an item, a cross-item rule (rule-failed), or the whole row. */
+export function findingTarget(ctx: Pick<Ctx, 'item'>, name: string): string {
+  if (name === '') return 'whole row';
+  return ctx.item(name) ? `<code>${esc(name)}</code>` : `rule <code>${esc(name)}</code>`;
+}
+
+export const worstText = (ctx: Pick<Ctx, 'item'>, worst: Array<[string, number]>) =>
+  worst.length === 0 ? '<span class="none">none</span>' : worst.map(([n, c]) => `<span class="nobr">${findingTarget(ctx, n)} ${num(c)}</span>`).join(', ');
+
+/** The table of one group item's codes, with a row for the whole delivery. */
+function groupTable(ctx: Ctx, group: string, withPages: boolean, linked = true): string {
+  const rows = teamRows(ctx, group);
+  const summary = ctx.input.check.summary;
+  const pages = withPages ? ctx.options.pages : undefined;
+  const lower = cappedRules(ctx).length > 0 ? '≥ ' : '';
+  const fileErrors = ctx.input.check.findings.filter((f) => f.row <= 0 && f.severity === 'error').length;
+  const fileWarnings = ctx.input.check.findings.filter((f) => f.row <= 0 && f.severity === 'warning').length;
+  const body = rows.map((r) => {
+    const page = pages?.byCode[r.key];
+    const label = r.rows > 0 && linked ? `<a href="#${teamAnchor(group, r.slug)}">${esc(r.name)}</a>` : `${esc(r.name)} <span class="note">no rows</span>`;
+    return [
+      label,
+      num(r.rows),
+      r.errors > 0 ? `<span class="n-error">${lower}${num(r.errors)}</span>` : '0',
+      r.warnings > 0 ? `<span class="n-warning">${lower}${num(r.warnings)}</span>` : '0',
+      r.rows > 0 ? pct(r.missingPercent) : '-',
+      `<span class="worst">${r.rows > 0 ? worstText(ctx, r.worst) : ''}</span>`,
+      ...(pages ? [page ? `<a href="${esc(page)}">page</a>` : ''] : []),
+    ];
+  });
+  const extra: string[][] = [];
+  if (fileErrors + fileWarnings > 0) {
+    extra.push([esc('no row (header, whole columns)'), '', num(fileErrors), num(fileWarnings), '', '<a href="#header">see Header</a>', ...(pages ? [''] : [])]);
+  }
+  const totalErrors = summary.findings.bySeverity.error ?? 0;
+  const totalWarnings = summary.findings.bySeverity.warning ?? 0;
+  const all = ['all rows', num(summary.rows), num(totalErrors), num(totalWarnings), pct(missingPercentOf(ctx, summary.items)), '', ...(pages ? [`<a href="${esc(pages.index)}">index</a>`] : [])];
+  const html = table({
+    head: [ctx.item(group)?.label ? `${group} (${ctx.item(group)!.label})` : group, 'rows', 'errors', 'warnings', 'missing %', 'worst items', ...(pages ? ['own page'] : [])],
+    numeric: [1, 2, 3, 4],
+    rows: [...body, ...extra, all],
+    className: 'wide teams',
+  });
+  // Mark the last row (the whole delivery) as the total: the table helper writes plain rows.
+  return html.replace(/<tr>(?![^]*<tr>)/, '<tr class="total">');
+}
+
+/**
+ * The first screen's table of field teams: the chosen group item's codes with errors,
+ * warnings, missing percent and worst items, each linked to the team's section (and, in a
+ * split report, its own page). With no group item, the items with the most findings instead.
+ */
+export function teamsSection(ctx: Ctx): string {
+  if (ctx.options.team) return comparisonSection(ctx);
+  const group = chosenGroup(ctx);
+  if (group === undefined) return '';
+  const others = ctx.input.codebook.groupItems.map((g) => g.name).filter((g) => g !== group);
+  const capped = cappedRules(ctx);
+  const notes = [
+    'Missing % leaves out valid skips and free text. Worst items: the most error and warning findings in the team’s rows.',
+    ...(capped.length > 0 ? [`≥: the findings log keeps only the first findings of ${capped.join(', ')}; a team’s counts are the logged ones.`] : []),
+    ...(others.length > 0 ? [`By ${others.join(', ')}: see Field teams below.`] : []),
+  ];
+  return `<section id="teams" class="block"><h2>By ${esc(group)}${ctx.item(group) ? `: ${esc(ctx.item(group)!.label)}` : ''}</h2>
+${groupTable(ctx, group, true)}<p class="note">${esc(notes.join(' '))}</p></section>`;
+}
+
+/** Items of a team worth a supervisor's look: findings first, then missing percent above all rows. */
+function teamItems(ctx: Ctx, group: string, row: TeamRow, perItem: Record<string, GroupItemTally>): string {
+  const counts = new Map<string, { e: number; w: number }>();
+  for (const f of ctx.input.check.findings) {
+    if (keyOfFinding(f, group) !== row.key || f.severity === 'info') continue;
+    const c = counts.get(f.item) ?? { e: 0, w: 0 };
+    if (f.severity === 'error') c.e++;
+    else c.w++;
+    counts.set(f.item, c);
+  }
+  const whole = ctx.input.check.summary.items;
+  const pctOf = (t: GroupItemTally | undefined) => (t && cellsOf(t) > 0 ? (100 * unansweredOf(t)) / cellsOf(t) : 0);
+  const names = [...new Set([...Object.keys(perItem), ...counts.keys()])].filter((n) => n !== group && !isFreeText(ctx, n));
+  const scored = names
+    .map((n) => ({ n, e: counts.get(n)?.e ?? 0, w: counts.get(n)?.w ?? 0, mine: pctOf(perItem[n]), all: pctOf(whole[n]) }))
+    .filter((x) => x.e + x.w > 0 || x.mine - x.all >= 5)
+    .sort((a, b) => b.e + b.w - (a.e + a.w) || b.mine - b.all - (a.mine - a.all))
+    .slice(0, 4);
+  if (scored.length === 0) return '<p class="none">No findings and no item with a missing percent well above all rows.</p>';
+  return table({
+    head: ['item', 'errors', 'warnings', 'missing %', 'all rows'],
+    numeric: [1, 2, 3, 4],
+    rows: scored.map((x) => [findingTarget(ctx, x.n), num(x.e), num(x.w), `<span class="${x.mine - x.all >= 5 ? 'worse' : ''}">${pct(x.mine)}</span>`, pct(x.all)]),
+  });
+}
+
+/**
+ * One short section per code of every group item on the main page: its counts, the items to
+ * look at, a link to its own page in a split report. The first screen's table links here.
+ */
+export function teamSectionsSection(ctx: Ctx): string {
+  if (ctx.options.team) return '';
+  const chosen = chosenGroup(ctx);
+  if (chosen === undefined) return '';
+  const groups = [chosen, ...ctx.input.codebook.groupItems.map((g) => g.name).filter((g) => g !== chosen)];
+  const blocks = groups.map((group) => {
+    const title = ctx.item(group)?.label ? `${group}: ${ctx.item(group)!.label}` : group;
+    // The chosen group item's codes get a card each (the first screen links to them); the
+    // other group items get their table.
+    if (group !== chosen) return `<h3 class="section-title">${esc(title)}</h3>${groupTable(ctx, group, false, false)}`;
+    const tallies = tallyByKey(ctx, group);
+    const pages = ctx.options.pages;
+    const cards = teamRows(ctx, group)
+      .filter((r) => r.rows > 0)
+      .map((r) => {
+        const page = pages?.byCode[r.key];
+        const head = `<h3>${esc(r.name)}</h3><p class="note">${esc(`${num(r.rows)} rows; ${num(r.errors)} errors, ${num(r.warnings)} warnings; missing ${pct(r.missingPercent)}`)}${page ? ` &middot; <a href="${esc(page)}">the team’s own page</a>` : ''}</p>`;
+        return `<article class="card" id="${teamAnchor(group, r.slug)}">${head}${teamItems(ctx, group, r, tallies.get(r.key) ?? {})}</article>`;
+      })
+      .join('');
+    return `<h3 class="section-title">${esc(title)}</h3><div class="team-cards">${cards}</div>`;
+  });
+  return `<section id="field-teams"><h2 class="section-title">Field teams</h2><p class="note">Per team: the items with findings in its rows, or with a missing percent at least 5 points above all rows (a first look, not a test).</p>${blocks.join('')}</section>`;
+}
+
+/** A team page's first table: the team beside the whole delivery. */
+function comparisonSection(ctx: Ctx): string {
+  const team = ctx.options.team!;
+  const mine = ctx.input.check.summary;
+  const whole = team.whole;
+  const wholeCtx = { input: { ...ctx.input, check: { ...ctx.input.check, summary: whole } }, item: ctx.item };
+  const line = (who: string, s: typeof mine, c: Pick<Ctx, 'input' | 'item'>) => [
+    who,
+    num(s.rows),
+    num(s.findings.bySeverity.error ?? 0),
+    num(s.findings.bySeverity.warning ?? 0),
+    pct(missingPercentOf(c, s.items)),
+  ];
+  const rows = [line('this team', mine, ctx), line('all rows', whole, wholeCtx)];
+  return `<section id="teams" class="block"><h2>${esc(team.name)} beside the whole delivery</h2>${table({ head: ['', 'rows', 'errors', 'warnings', 'missing %'], numeric: [1, 2, 3, 4], rows })}
+<p class="note">Missing % leaves out valid skips and free text. Findings are the delivery’s findings in the team’s rows: outlier fences are those of the whole delivery. Item summaries below are computed from the team’s rows alone.</p></section>`;
+}
