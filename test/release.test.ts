@@ -12,6 +12,7 @@
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { execFile } from 'node:child_process';
 import { copyFile, mkdtemp, readFile, readdir, rm, writeFile } from 'node:fs/promises';
+import { existsSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { promisify } from 'node:util';
@@ -81,7 +82,8 @@ describe('the released packages, installed with plain npm', () => {
     const names = tarballs.map((t) => t.split('/').pop());
     for (const p of ['core', 'codebook', 'read', 'stats', 'check', 'describe', 'report', 'draft', 'cli'])
       expect(names.some((n) => n?.startsWith(`codeweir-${p}-`)), p).toBe(true);
-    const pkgs = await readdir(join(REPO, 'packages'));
+    // Every package of the workspace is published: none is private, each has its tarball.
+    const pkgs = (await readdir(join(REPO, 'packages'))).filter((p) => existsSync(join(REPO, 'packages', p, 'package.json')));
     expect(tarballs).toHaveLength(pkgs.length);
   });
 
@@ -123,6 +125,25 @@ describe('the released packages, installed with plain npm', () => {
     expect(printed).toEqual(
       JSON.parse(JSON.stringify({ rows: checked.summary.rows, byRule: checked.summary.findings.byRule, ageMedian: described.items.age!.median, eduMedian: described.items.edu!.medianCode })),
     );
+  });
+
+  it('the installed library checks on worker threads started from its built files, with the one-thread result', async (ctx) => {
+    if (installError) ctx.skip(`npm could not install the tarballs' runtime dependencies: ${installError}`);
+    const script = [
+      "import { loadCodebookOrThrow } from '@codeweir/codebook';",
+      "import { checkFile } from '@codeweir/check';",
+      "import { isMainThread } from 'node:worker_threads';",
+      "let started = 0;",
+      "process.on('worker', () => started++);",
+      "const cb = await loadCodebookOrThrow('household.codebook.json');",
+      "const one = await checkFile('demo-delivery.csv', cb, { threads: 1 });",
+      "const two = await checkFile('demo-delivery.csv', cb, { threads: 2, minParallelBytes: 0 });",
+      "console.log(JSON.stringify({ started, same: JSON.stringify(one.summary) === JSON.stringify(two.summary), main: isMainThread }));",
+    ].join('\n');
+    await writeFile(join(project, 'threads.mjs'), script);
+    const r = await run(process.execPath, ['threads.mjs'], project);
+    expect(r.code, r.err).toBe(0);
+    expect(JSON.parse(r.out)).toEqual({ started: 1, same: true, main: true });
   });
 
   it('no transpiler is in the installed tree', async (ctx) => {
