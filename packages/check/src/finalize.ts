@@ -459,5 +459,6 @@ export function finalize(p: PartialResult, given?: { quartiles?: ReadonlyMap<num
     else if (c instanceof Float64Array) columns[item.name] = { kind: 'numeric', item: item.name, values: c };
   });
   const store: ColumnStore = { rows: p.rows, columns };
+  if (p.groups.length > 0) store.groupKeys = Object.fromEntries(p.groups.map((g) => [g.item, { keys: g.keys, rowKeys: g.rowKeys }]));
   return { summary, findings: all, store };
 }

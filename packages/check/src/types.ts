@@ -134,6 +134,11 @@ export interface ColumnStore {
   rows: number;
   /** Keyed by item name; text items without codes are not retained. */
   columns: Record<string, ItemColumn>;
+  /**
+   * Group items' cell text per row: `keys[rowKeys[r]]` is row r's group key (`(missing)` /
+   * `(invalid)` where the cell is not valid). The same arrays the group tallies use, no copy.
+   */
+  groupKeys?: Record<string, { keys: readonly string[]; rowKeys: Uint32Array }>;
 }
 
 export interface CheckResult {

@@ -7,6 +7,7 @@ import { resolveWeight, weightsFor, type WeightColumn } from './weights.ts';
 import { describeCategorical, type Category } from './categorical.ts';
 import { describeContinuous } from './continuous.ts';
 import { describePairs } from './pairs.ts';
+import { addDesignEstimates, designActive, designWeightName } from './design.ts';
 
 /**
  * Level-appropriate summaries of the valid cells of every described item of a checked
@@ -32,7 +33,7 @@ export function describe(
   options: DescribeOptions | DescribeOptionsInput | NormalizedDescribeOptions = {},
 ): DescribeResult {
   const opts = normalizeDescribeOptions(options as DescribeOptionsInput);
-  const weight = resolveWeight(result.store, codebook, opts.weight);
+  const weight = resolveWeight(result.store, codebook, designWeightName(codebook, opts));
   // Pairs first: a bad pair name fails before any work on the items.
   const pairs = opts.pairs === 'all' || opts.pairs.length > 0 ? describePairs(result, codebook, opts) : [];
   return assembleDescription(result, codebook, opts, weight, pairs, (item, col, w) => describeItem(item, col, result, opts, w));
@@ -84,6 +85,7 @@ export function assembleDescription(
   }
   if (weight) out.weight = weight.item;
   if (opts.listwise) out.listwise = true;
+  if (designActive(codebook, opts)) addDesignEstimates(out, result, codebook, opts, weight);
   return out;
 }
 
@@ -96,7 +98,7 @@ export function isContinuous(item: CompiledItem, col: ItemColumn | undefined): c
 }
 
 /** Categories and per-row category of a column summarised as nominal or ordinal. */
-function categoriesOf(item: CompiledItem, col: ItemColumn): { categories: Category[]; rowCategory: Int32Array } {
+export function categoriesOf(item: CompiledItem, col: ItemColumn): { categories: Category[]; rowCategory: Int32Array } {
   if (col.kind === 'coded') {
     const rowCategory = new Int32Array(col.codes.length);
     for (let r = 0; r < rowCategory.length; r++) rowCategory[r] = col.codes[r]! - 1;
@@ -112,7 +114,7 @@ function categoriesOf(item: CompiledItem, col: ItemColumn): { categories: Catego
 }
 
 /** Numeric values of a column summarised as interval or ratio (codes read as numbers). */
-function numbersOf(item: CompiledItem, col: ItemColumn): Float64Array | undefined {
+export function numbersOf(item: CompiledItem, col: ItemColumn): Float64Array | undefined {
   if (col.kind === 'numeric') return col.values;
   const asNumber = item.codes.map((c) => (typeof c.code === 'number' ? c.code : Number(c.code)));
   if (asNumber.some((v) => !Number.isFinite(v))) return undefined;

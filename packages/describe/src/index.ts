@@ -9,3 +9,4 @@ export {
 } from './options.ts';
 export { conventionText, conventionsFor, OUTLIER_NOTE_SHARE, type ConventionKey } from './conventions.ts';
 export { describePairs, type PairOptions } from './pairs.ts';
+export { addDesignEstimates, designActive, designWeightName, DESIGN_CONVENTIONS } from './design.ts';

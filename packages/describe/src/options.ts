@@ -13,6 +13,12 @@ export interface DescribeOptions {
   listwise?: boolean;
   /** Extra percentiles (0 to 100), e.g. [10, 90]. */
   percentiles?: number[];
+  /** Sample design items (override the codebook's `design`): any of them asks for design-based standard errors. */
+  strata?: string;
+  cluster?: string;
+  fpc?: string;
+  /** Group item whose codes are the domains of design-based estimates. */
+  by?: string;
 }
 
 /** Options after {@link normalizeDescribeOptions}: defaults filled, values checked. */
@@ -22,6 +28,11 @@ export interface NormalizedDescribeOptions {
   pairs: Array<[string, string]> | 'all';
   listwise: boolean;
   percentiles: number[];
+  /** Present only when a design option was given (so the options of a run without one are unchanged). */
+  strata?: string;
+  cluster?: string;
+  fpc?: string;
+  by?: string;
 }
 
 export type DescribeOptionsInput = Partial<Record<keyof DescribeOptions, unknown>>;
@@ -89,5 +100,12 @@ export function normalizeDescribeOptions(raw: DescribeOptionsInput = {}): Normal
     percentiles = percentiles.sort((a, b) => a - b);
   }
 
-  return { quantileType, weight, pairs, listwise, percentiles };
+  const out: NormalizedDescribeOptions = { quantileType, weight, pairs, listwise, percentiles };
+  for (const key of ['strata', 'cluster', 'fpc', 'by'] as const) {
+    const v = raw[key];
+    if (v === undefined) continue;
+    if (typeof v !== 'string' || v.trim() === '') bad(`--${key} takes an item name, got ${JSON.stringify(v)}.`);
+    out[key] = v;
+  }
+  return out;
 }

@@ -19,6 +19,7 @@ import { normalizeDescribeOptions, type DescribeOptions, type DescribeOptionsInp
 import { resolveWeight, weightsFor } from './weights.ts';
 import { describePairs } from './pairs.ts';
 import { assembleDescription, describeItem, isContinuous, type ItemPart } from './describe.ts';
+import { designWeightName } from './design.ts';
 
 const MARKER = 'codeweir-describe-worker';
 /** Below this many rows the items are described on the calling thread (a worker's start costs more). */
@@ -82,7 +83,7 @@ export async function describeParallel(
   how: DescribeThreads = {},
 ): Promise<DescribeResult> {
   const opts = normalizeDescribeOptions(options as DescribeOptionsInput);
-  const weight = resolveWeight(result.store, codebook, opts.weight);
+  const weight = resolveWeight(result.store, codebook, designWeightName(codebook, opts));
   // Pairs first: a bad pair name fails before any work on the items (as in describe).
   const pairs = opts.pairs === 'all' || opts.pairs.length > 0 ? describePairs(result, codebook, opts) : [];
   const store = result.store;

@@ -87,11 +87,64 @@ export interface ItemDescription {
     q1Code?: OrdinalPosition;
     q3Code?: OrdinalPosition;
     percent?: Record<string, number>;
-  };
+  } & DesignFigures;
+  /** With a design and `by`: design-based estimates in each domain (key: the by item's code). */
+  domains?: Record<string, DomainEstimate>;
   /** Statistic name -> reason it is not given for this item. */
   withheld: Record<string, string>;
   /** Conventions in use (quantile type, ddof, skewness estimator...). */
   conventions?: Record<string, string>;
+}
+
+/** A 95% confidence interval and how it was made. */
+export interface Interval {
+  low: number;
+  high: number;
+  method: string;
+}
+
+/**
+ * Design-based figures (present with a sample design): a mean's standard error, design effect,
+ * effective sample size and interval as numbers; for coded items the same per code, keyed by
+ * code (percent units for `percentSe` and the interval). null where undefined (no variation).
+ */
+export interface DesignFigures {
+  se?: number | null;
+  percentSe?: Record<string, number | null>;
+  deff?: number | null | Record<string, number | null>;
+  nEffective?: number | null | Record<string, number | null>;
+  ci?: Interval | null | Record<string, Interval | null>;
+  /** Design degrees of freedom of the cases used (clusters minus strata). */
+  df?: number;
+}
+
+/** One domain's design-based estimates. */
+export interface DomainEstimate extends DesignFigures {
+  label: string;
+  /** Cases used: in the domain, valid, with a usable design row. */
+  n: number;
+  sumOfWeights: number;
+  mean?: number;
+  percent?: Record<string, number>;
+}
+
+/** The sample design the estimates used. */
+export interface DesignSummary {
+  weight: string | null;
+  strata: string | null;
+  cluster: string | null;
+  fpc: string | null;
+  by?: string;
+  /** How fpc values were read: population counts of clusters, or sampling fractions. */
+  fpcAs?: 'population count' | 'sampling fraction';
+  strataCount: number;
+  clusters: number;
+  /** Clusters minus strata. */
+  df: number;
+  /** Rows outside every estimate: weight missing or not positive, stratum, cluster or fpc unknown. */
+  excludedRows: number;
+  /** Strata with a single cluster (codes) and how they enter the variance. */
+  singleCluster: { rule: 'adjust'; strata: string[]; note?: string };
 }
 
 export interface GroupSummary {
@@ -180,4 +233,6 @@ export interface DescribeResult {
   items: Record<string, ItemDescription>;
   pairs: PairDescription[];
   conventions: Record<string, string>;
+  /** Present with a sample design (codebook `design` or a design option). */
+  design?: DesignSummary;
 }

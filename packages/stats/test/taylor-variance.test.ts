@@ -1,37 +1,13 @@
 import { readFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
 import { describe, it, expect } from 'vitest';
 import { resolveSampleDesign, designMean, designProportions, designEffect, logitInterval, meanInterval, type SampleDesign } from '../src/index.ts';
+import { referenceFile, surveyReference, type SurveyCase } from '../../../test/reference/survey-design.ts';
 
 // Oracle: R's survey package (svydesign, svymean with deff = TRUE, confint with df = degf,
 // svyciprop method = "logit", svyby), on the school samples apistrat and apiclus1 and the nhanes
 // sample that package ships; values made by test/reference/survey-design.R.
-const here = (f: string): string => fileURLToPath(new URL(`../../../test/reference/${f}`, import.meta.url));
-interface Estimate {
-  kind: 'mean' | 'percent';
-  item: string;
-  code?: string | number;
-  by?: string;
-  domain?: string | number;
-  n: number;
-  estimate: number;
-  se: number;
-  deff: number | string;
-  df: number;
-  ciLow: number;
-  ciHigh: number;
-}
-interface Case {
-  name: string;
-  file: string;
-  design: { weight: string; strata?: string; cluster?: string; fpc?: string; singleCluster?: string };
-  degf: number;
-  estimates: Estimate[];
-}
-const reference = JSON.parse(readFileSync(here('survey-design.json'), 'utf8')) as {
-  cases: Case[];
-  replace: { item: string; estimate: number; se: number; deff: number };
-};
+const here = referenceFile;
+const reference = surveyReference;
 
 /** The CSV files R wrote: no embedded commas or quotes, strings quoted, NA as empty. */
 function readCsv(file: string): Record<string, string[]> {
@@ -57,7 +33,7 @@ const distinctSorted = (col: string[]): string[] => {
   return vals.every((v) => !Number.isNaN(Number(v))) ? vals.sort((a, b) => Number(a) - Number(b)) : vals.sort();
 };
 
-function designOf(c: Case, data: Record<string, string[]>): SampleDesign {
+function designOf(c: SurveyCase, data: Record<string, string[]>): SampleDesign {
   const d = c.design;
   return resolveSampleDesign({
     weights: numbers(data[d.weight]!),
