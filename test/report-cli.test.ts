@@ -75,6 +75,36 @@ describe('codeweir report', () => {
     expect(tempsLeft()).toEqual([]);
   });
 
+  it('--split-by team writes one page per team beside the report, each with only its rows, and an index', async () => {
+    const io = capture();
+    const code = await run(['report', 'faulty.csv', '--codebook', 'mini.codebook.json', '-o', 'split/faulty.html', '--split-by', 'team'], io);
+    expect(code).toBe(1);
+    expect(io.out).toContain('Report written to split/faulty.html and 2 team pages in split/faulty-team: not accepted (1 error, 0 warnings).');
+    expect(readdirSync(join(dir, 'split')).sort()).toEqual(['faulty-team', 'faulty.html']);
+    expect(readdirSync(join(dir, 'split', 'faulty-team')).sort()).toEqual(['index.html', 'team-1.html', 'team-2.html']);
+    const main = readFileSync(join(dir, 'split', 'faulty.html'), 'utf8');
+    expect(main).toContain('<a href="faulty-team/team-1.html">page</a>');
+    // faulty.csv: H1, H2 and H5 are team 1 (North), H3 and H4 team 2 (South); "four" is in H2.
+    const north = readFileSync(join(dir, 'split', 'faulty-team', 'team-1.html'), 'utf8');
+    const south = readFileSync(join(dir, 'split', 'faulty-team', 'team-2.html'), 'utf8');
+    expect(north).toContain('North [1]: 1 error and 0 warnings in the team’s 3 rows.');
+    expect(north).toContain('id="rule-not-a-number"');
+    expect(south).toContain('South [2]: 0 errors and 0 warnings in the team’s 2 rows.');
+    expect(south).not.toContain('id="rule-not-a-number"');
+    // size in team 2: 2 and 5, so its mean is 3.5 (first principles).
+    expect(south).toMatch(/<td>mean<\/td><td class="num">3\.5<\/td>/);
+    expect(readFileSync(join(dir, 'split', 'faulty-team', 'index.html'), 'utf8')).toContain('<a href="team-2.html">South [2]</a>');
+    expect(readdirSync(join(dir, 'split', 'faulty-team')).filter((f) => f.endsWith('.tmp'))).toEqual([]);
+  });
+
+  it('refuses a --split-by that is not a group item before reading the delivery, writing nothing', async () => {
+    const io = capture();
+    expect(await run(['report', 'clean.csv', '--codebook', 'mini.codebook.json', '-o', 'nosplit.html', '--split-by', 'size'], io)).toBe(2);
+    expect(io.err.trim()).toBe('codeweir: --split-by takes a group item, got "size"; the codebook\'s group items are team.');
+    expect(existsSync(join(dir, 'nosplit.html'))).toBe(false);
+    expect(existsSync(join(dir, 'nosplit-size'))).toBe(false);
+  });
+
   it('draws the requested pair', async () => {
     const io = capture();
     expect(await run(['report', 'clean.csv', '--codebook', 'mini.codebook.json', '-o', 'pair.html', '--pair', 'team:size'], io)).toBe(0);

@@ -1,6 +1,6 @@
 export { renderReport, CONTENT_SECURITY_POLICY } from './report.ts';
 export { renderSplitReport, splitCheck, splitLayout, type SplitReport, type SplitReportOptions, type SplitLayout, type TeamPart } from './split.ts';
-export { UNASSIGNED, teamRows, type TeamRow } from './teams.ts';
+export { UNASSIGNED, teamRows, groupItemOrThrow, type TeamRow } from './teams.ts';
 export type { ReportInput, ReportOptions, PageLinks, TeamScope } from './context.ts';
 export { escapeHtml } from './escape.ts';
 export { formatNumber, formatPercent, formatP } from './format.ts';

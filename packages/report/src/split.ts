@@ -9,7 +9,7 @@ import { CodeweirError } from '@codeweir/core';
 import { escapeHtml as esc } from './escape.ts';
 import { formatNumber as num, formatPercent as pct } from './format.ts';
 import { table, type ReportInput, type ReportOptions, type TeamScope } from './context.ts';
-import { UNASSIGNED, cappedRules, keyOfFinding, tallyByKey, teamRows, worstText, type TeamRow } from './teams.ts';
+import { UNASSIGNED, groupItemOrThrow, cappedRules, keyOfFinding, tallyByKey, teamRows, worstText, type TeamRow } from './teams.ts';
 import { renderReport } from './report.ts';
 import { pageShell } from './page.ts';
 
@@ -93,11 +93,7 @@ function findingTotals(findings: readonly Finding[]): CheckSummary['findings'] {
  * `group` is not a group item or has no retained column.
  */
 export function splitCheck(input: ReportInput, group: string): TeamPart[] {
-  const item = input.codebook.byName.get(group);
-  if (!item || item.role !== 'group') {
-    const groups = input.codebook.groupItems.map((g) => g.name);
-    throw new CodeweirError('CW_USAGE', `--split-by takes a group item, got ${JSON.stringify(group)}; ${groups.length > 0 ? `the codebook's group items are ${groups.join(', ')}` : 'the codebook has no group item (role "group")'}.`);
-  }
+  groupItemOrThrow(input.codebook, group);
   const ctx = { input, item: (n: string) => input.codebook.byName.get(n) };
   const keyOf = rowKeys(input, group);
   const whole = input.check;

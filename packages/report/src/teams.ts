@@ -5,6 +5,7 @@
  */
 import type { Finding, GroupItemTally } from '@codeweir/check';
 import { CodeweirError } from '@codeweir/core';
+import type { CompiledCodebook } from '@codeweir/codebook';
 import { escapeHtml as esc } from './escape.ts';
 import { formatNumber as num, formatPercent as pct } from './format.ts';
 import { type Ctx, table } from './context.ts';
@@ -38,14 +39,20 @@ export interface TeamRow {
  * Throws CodeweirError CW_USAGE naming the group items when `groupBy` is not one of them.
  */
 export function chosenGroup(ctx: Pick<Ctx, 'input' | 'options'>): string | undefined {
-  const groups = ctx.input.codebook.groupItems.map((g) => g.name);
   const want = ctx.options.groupBy;
-  if (want === undefined) return groups[0];
-  if (!groups.includes(want)) {
-    const known = groups.length > 0 ? `the codebook's group items are ${groups.join(', ')}` : 'the codebook has no group item (role "group")';
-    throw new CodeweirError('CW_USAGE', `--split-by takes a group item, got ${JSON.stringify(want)}; ${known}.`);
-  }
-  return want;
+  return want === undefined ? ctx.input.codebook.groupItems[0]?.name : groupItemOrThrow(ctx.input.codebook, want);
+}
+
+/**
+ * `name` when it is a group item of the codebook. Throws CodeweirError CW_USAGE naming the
+ * group items otherwise, e.g. `--split-by takes a group item, got "sex"; the codebook's group
+ * items are district, team.` Cost: O(group items).
+ */
+export function groupItemOrThrow(codebook: CompiledCodebook, name: string): string {
+  const groups = codebook.groupItems.map((g) => g.name);
+  if (groups.includes(name)) return name;
+  const known = groups.length > 0 ? `the codebook's group items are ${groups.join(', ')}` : 'the codebook has no group item (role "group")';
+  throw new CodeweirError('CW_USAGE', `--split-by takes a group item, got ${JSON.stringify(name)}; ${known}.`);
 }
 
 /** A safe, unique file-name stem for each key: letters, digits, `-` and `_` only. */

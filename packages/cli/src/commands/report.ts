@@ -1,7 +1,7 @@
-import { resolve } from 'node:path';
+import { basename, dirname, join, resolve } from 'node:path';
 import type { CheckResult } from '@codeweir/check';
 import type { Delivery, RowBatch } from '@codeweir/read';
-import { CodeweirError, writeFileAtomic } from '@codeweir/core';
+import { CodeweirError, writeFileAtomic, writeFilesAtomic } from '@codeweir/core';
 import type { CommandDef } from '../io.ts';
 import { FORMAT_OPTION, SHEET_OPTION, checkTypedInput, inputFormatOf, isPlainText } from '../formats.ts';
 import { THREADS_OPTION, threadsOption } from '../threads.ts';
@@ -25,9 +25,11 @@ function counted(d: Delivery, progress: Progress): Delivery {
 
 /**
  * `codeweir report <data> --codebook <file> -o <file.html> [--pair x:y ...] [--pairs all]
- * [--weight <item>] [--quantiles 1..9] [--delimiter c] [--encoding e] [--lang tag] [--threads N] [--quiet]`: one pass
+ * [--weight <item>] [--quantiles 1..9] [--delimiter c] [--encoding e] [--lang tag] [--threads N] [--split-by <group item>] [--quiet]`: one pass
  * over the delivery (check, whose retained columns describe then summarises), then one
- * self-contained HTML file written atomically. Exit 0 accepted, 1 error findings (the report
+ * self-contained HTML file written atomically. With `--split-by team`, `-o out/report.html`
+ * also writes `out/report-team/index.html` and one `out/report-team/team-<code>.html` per team
+ * (only that team's rows), all files together (every one written to a temporary file first). Exit 0 accepted, 1 error findings (the report
  * is written in both cases) or an invalid codebook, 2 usage errors or unreadable input.
  */
 export const reportCommand: CommandDef = {
@@ -48,6 +50,7 @@ export const reportCommand: CommandDef = {
       .option('threads', THREADS_OPTION)
       .option('format', FORMAT_OPTION)
       .option('sheet', SHEET_OPTION)
+      .option('split-by', { type: 'string', describe: 'a group item: the first screen tables its codes, and one page per code is written beside the report' })
       .option('quiet', { type: 'boolean', default: false, describe: 'no progress on stderr' }),
   handler: async (args, io) => {
     // Every option is checked before any file is read, so a typo fails at once.
@@ -60,7 +63,7 @@ export const reportCommand: CommandDef = {
     const threads = threadsOption(args.threads);
     // Loaded here, not at the top, so that starting the CLI costs only the command it runs (the
     // report package, with its chart libraries, is by far the largest).
-    const [{ loadCodebookOrThrow }, { checkDelivery, checkFile, normalizeCheckOptions }, { describeParallel, normalizeDescribeOptions }, { openDelivery }, { renderReport }] = await Promise.all([
+    const [{ loadCodebookOrThrow }, { checkDelivery, checkFile, normalizeCheckOptions }, { describeParallel, normalizeDescribeOptions }, { openDelivery }, { renderReport, renderSplitReport, groupItemOrThrow }] = await Promise.all([
       import('@codeweir/codebook'),
       import('@codeweir/check'),
       import('@codeweir/describe'),
@@ -80,6 +83,7 @@ export const reportCommand: CommandDef = {
 
     const lang = langOption(args.lang);
     const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)), lang === undefined ? {} : { lang });
+    const splitBy = args['split-by'] === undefined ? undefined : groupItemOrThrow(codebook, String(args['split-by']));
     const progress = createProgress(io, { label: 'reading rows', quiet: args.quiet === true });
     try {
       let result: CheckResult;
@@ -98,13 +102,20 @@ export const reportCommand: CommandDef = {
       progress.phase('describing');
       const described = await describeParallel(result, codebook, describeOptions, { threads });
       progress.phase('drawing charts');
-      const html = await renderReport({ check: result, describe: described, codebook, file: data });
-      await writeFileAtomic(outPath, html);
+      const reportInput = { check: result, describe: described, codebook, file: data };
+      let pages = '';
+      if (splitBy === undefined) {
+        await writeFileAtomic(outPath, await renderReport(reportInput));
+      } else {
+        const split = await renderSplitReport(reportInput, { splitBy, mainFile: basename(outPath), describeOptions: { ...describeOptions, pairs: [] } });
+        await writeFilesAtomic(split.files.map((f) => [join(dirname(outPath), f.path), f.html] as const));
+        pages = ` and ${split.parts.length} ${splitBy} page${split.parts.length === 1 ? '' : 's'} in ${join(dirname(out), split.layout.folder)}`;
+      }
       progress.done();
       const errors = result.summary.findings.bySeverity.error ?? 0;
       const warnings = result.summary.findings.bySeverity.warning ?? 0;
       if (args.quiet !== true) {
-        io.stdout(`Report written to ${out}: ${errors === 0 ? 'accepted' : 'not accepted'} (${errors} error${errors === 1 ? '' : 's'}, ${warnings} warning${warnings === 1 ? '' : 's'}).\n`);
+        io.stdout(`Report written to ${out}${pages}: ${errors === 0 ? 'accepted' : 'not accepted'} (${errors} error${errors === 1 ? '' : 's'}, ${warnings} warning${warnings === 1 ? '' : 's'}).\n`);
       }
       return errors > 0 ? 1 : 0;
     } finally {
