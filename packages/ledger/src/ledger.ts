@@ -5,7 +5,7 @@
  * first (a bounded wait) and otherwise stops with one sentence. A file whose content hash is
  * already in the ledger is recognised and not counted again.
  */
-import { mkdir, stat } from 'node:fs/promises';
+import { mkdir, open, stat } from 'node:fs/promises';
 import { dirname } from 'node:path';
 import { DuckDBInstance, LIST, VARCHAR, listValue, type DuckDBConnection, type DuckDBValue } from '@duckdb/node-api';
 import { CodeweirError } from '@codeweir/core';
@@ -86,6 +86,19 @@ function asBytes(a: Float64Array | Uint32Array): Uint8Array {
   return new Uint8Array(a.buffer, a.byteOffset, a.byteLength);
 }
 
+/** A DuckDB database file carries the magic bytes `DUCK` at offset 8 of its first block. */
+async function looksLikeDuckDb(path: string): Promise<boolean> {
+  const fh = await open(path, 'r').catch(() => null);
+  if (fh === null) return true; // let DuckDB report why it cannot be opened
+  try {
+    const head = Buffer.alloc(12);
+    const { bytesRead } = await fh.read(head, 0, 12, 0);
+    return bytesRead === 0 || (bytesRead === 12 && head.toString('latin1', 8, 12) === 'DUCK');
+  } finally {
+    await fh.close();
+  }
+}
+
 /**
  * An open ledger. Close it when done ({@link Ledger.close}): the file stays locked while open.
  */
@@ -111,6 +124,7 @@ export class Ledger {
     const exists = await stat(path).then((s) => s.isFile(), () => false);
     if (options.readOnly && !exists) throw new CodeweirError('CW_FILE_NOT_FOUND', `there is no ledger at ${path}; check a delivery with --ledger ${path} to start one.`, { file: path });
     if (!exists) await mkdir(dirname(path), { recursive: true }).catch(() => undefined);
+    else if (!(await looksLikeDuckDb(path))) throw new CodeweirError('CW_FILE_UNREADABLE', `${path} is not a codeweir ledger (not a DuckDB database file).`, { file: path });
     const started = Date.now();
     let instance: DuckDBInstance | undefined;
     for (let attempt = 0; instance === undefined; attempt++) {
