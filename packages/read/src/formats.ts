@@ -209,6 +209,13 @@ function dateText(d: Date): string {
   return `${day} ${time}${ms === '.000' ? '' : ms}`;
 }
 
+/** A timestamp as YYYY-MM-DD HH:MM:SS (UTC), milliseconds appended when there are any. */
+function timestampText(d: Date): string {
+  const iso = d.toISOString();
+  const ms = iso.slice(19, 23);
+  return `${iso.slice(0, 10)} ${iso.slice(11, 19)}${ms === '.000' ? '' : ms}`;
+}
+
 /**
  * The text form of a typed cell, the form the classifiers judge: numbers as JavaScript's
  * shortest round-trip text (`2`, `0.1`, `-9`), big integers in full, dates as YYYY-MM-DD (a time
@@ -412,6 +419,8 @@ async function openParquetDelivery(file: string, read: ReadOptions): Promise<Del
   for (const el of top) columnTypes[el.name] = el.num_children ? 'mixed' : parquetType(el);
   const batchRows = opts.batchRows ?? defaultBatchRows(header.length);
   const groups = metadata.row_groups.map((g) => Number(g.num_rows));
+  // A timestamp keeps its time of day even at midnight: it is not a calendar day.
+  const stamped = header.map((h) => columnTypes[h] === 'timestamp');
   return {
     file,
     header,
@@ -434,7 +443,7 @@ async function openParquetDelivery(file: string, read: ReadOptions): Promise<Del
         }
         for (let r = 0; r < rows.length; r++) {
           const row = rows[r]!;
-          for (let c = 0; c < header.length; c++) fields[c] = cellText(row[c]);
+          for (let c = 0; c < header.length; c++) fields[c] = stamped[c] && row[c] instanceof Date ? timestampText(row[c] as Date) : cellText(row[c]);
           const b = rc.add(fields, start + r + 1);
           if (b) yield b;
         }

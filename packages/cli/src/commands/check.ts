@@ -4,6 +4,8 @@ import type { CheckResult, Finding } from '@codeweir/check';
 import { CodeweirError } from '@codeweir/core';
 import type { CommandDef, Io } from '../io.ts';
 import { THREADS_OPTION, threadsOption } from '../threads.ts';
+import { FORMAT_OPTION, SHEET_OPTION, checkTypedInput, inputFormatOf, isPlainText } from '../formats.ts';
+import { LEDGER_WAIT_OPTION, DRIFT_P_OPTION, DRIFT_PSI_OPTION, ledgerSetup } from '../season.ts';
 
 function plural(n: number, word: string): string {
   return `${n} ${word}${n === 1 ? '' : 's'}`;
@@ -36,6 +38,7 @@ function humanReport(result: CheckResult, data: string, failOnWarning: boolean):
   if (h.duplicate.length) lines.push(`Repeated columns: ${h.duplicate.join(', ')}.`);
   if (h.unexpected.length) lines.push(`Columns not in the codebook: ${h.unexpected.join(', ')}.`);
   if (h.outOfOrder) lines.push('Columns are not in codebook order (matched by name).');
+  for (const n of h.typeNotes ?? []) lines.push(`Note: ${n.message}`);
   const byRule = Object.entries(s.findings.byRule).sort((a, b) => (b[1] ?? 0) - (a[1] ?? 0));
   if (byRule.length) {
     lines.push('Findings by rule:');
@@ -72,7 +75,9 @@ function withProgress(d: Delivery, io: Io): Delivery {
 /**
  * `codeweir check <data> --codebook <file> [--out <dir>] [--split-by <item>] [--json]
  * [--fail-on warning] [--strict] [--max-findings-per-rule N] [--delimiter c] [--encoding e]
- * [--decimal-comma] [--quantiles N] [--max-field-bytes N] [--threads N] [--quiet]`. With more than one
+ * [--decimal-comma] [--quantiles N] [--max-field-bytes N] [--threads N] [--format f] [--sheet s]
+ * [--engine builtin|duckdb|postgres] [--connection url] [--row-column c] [--quiet]`. A csv.gz,
+ * xlsx or Parquet delivery is read on one thread through the same classification. With more than one
  * thread (the default on a multi-core machine) a large file is checked in parallel, with the
  * same result; progress is shown for a one-thread check only. Exit 0 when no finding is at error severity
  * (with --fail-on warning: no warning either), 1 when there are error findings or the
@@ -97,9 +102,20 @@ export const checkCommand: CommandDef = {
       .option('quantiles', { type: 'string', describe: 'Hyndman-Fan quantile type 1 to 9 for the outlier fences; default 7' })
       .option('max-field-bytes', { type: 'string', describe: 'largest field allowed, in bytes (a larger one makes the file unreadable)' })
       .option('threads', THREADS_OPTION)
+      .option('format', FORMAT_OPTION)
+      .option('sheet', SHEET_OPTION)
+      .option('engine', { type: 'string', choices: ['builtin', 'duckdb', 'postgres'], default: 'builtin', describe: 'where the checks run: the built-in reader, embedded DuckDB (CSV or Parquet), or a PostgreSQL server (needs --connection; <data> is then a table name)' })
+      .option('connection', { type: 'string', describe: 'with --engine postgres: the server, as postgresql://user@host:port/database (a host of /path is a unix-socket folder)' })
+      .option('row-column', { type: 'string', describe: 'with --engine postgres: the table column that numbers the rows (default: the order the server returns them in)' })
+      .option('ledger', { type: 'string', describe: 'a ledger file (DuckDB; created when absent): record this delivery in it and compare it with the one recorded before' })
+      .option('ledger-wait', LEDGER_WAIT_OPTION)
+      .option('drift-p', DRIFT_P_OPTION)
+      .option('drift-psi', DRIFT_PSI_OPTION)
       .option('quiet', { type: 'boolean', default: false, describe: 'no progress on stderr' }),
   handler: async (args, io) => {
     const data = String(args.data);
+    // The ledger (and DuckDB) is loaded only with --ledger: without it the check runs exactly as before.
+    const season = args.ledger === undefined ? undefined : await ledgerSetup(args, io.cwd);
     const threads = threadsOption(args.threads);
     // Loaded here, not at the top, so that starting the CLI costs only the command it runs.
     const [{ loadCodebookOrThrow }, { openDelivery }, { checkDelivery, checkFile, normalizeCheckOptions, writeCheckOutputs }] = await Promise.all([
@@ -114,8 +130,9 @@ export const checkCommand: CommandDef = {
       delimiter: args.delimiter,
       encoding: args.encoding,
       maxFieldBytes: args['max-field-bytes'],
-      // check alone describes nothing: coded items are tallied as rows pass and keep no per-row memory.
-      retainCoded: false,
+      // check alone describes nothing: coded items are tallied as rows pass and keep no per-row memory
+      // (with --ledger they are kept for the ledger's code counts).
+      retainCoded: season !== undefined,
     });
     const splitBy = args['split-by'] === undefined ? undefined : String(args['split-by']);
     if (splitBy !== undefined && args.out === undefined) throw new CodeweirError('CW_USAGE', '--split-by writes files, so it needs --out <dir>.');
@@ -124,9 +141,24 @@ export const checkCommand: CommandDef = {
       const groups = codebook.groupItems.map((g) => g.name);
       throw new CodeweirError('CW_USAGE', `--split-by takes a group item of the codebook${groups.length ? ` (${groups.join(', ')})` : ', which has none'}, got ${splitBy}.`);
     }
+    const engine = String(args.engine ?? 'builtin');
+    const input = inputFormatOf(args);
+    if (args.connection !== undefined && engine !== 'postgres') throw new CodeweirError('CW_USAGE', '--connection applies to --engine postgres only.');
+    if (args['row-column'] !== undefined && engine !== 'postgres') throw new CodeweirError('CW_USAGE', '--row-column applies to --engine postgres only.');
     const dataPath = resolve(io.cwd, data);
     let result: CheckResult;
-    if (threads > 1) result = await checkFile(dataPath, codebook, { ...options, threads });
+    if (engine !== 'builtin') {
+      // Loaded only for these engines, so the built-in check starts as fast as before.
+      const { checkWithEngine } = await import('@codeweir/sql');
+      result = await checkWithEngine(engine === 'postgres' ? data : dataPath, codebook, options, {
+        engine: engine as 'duckdb' | 'postgres',
+        connection: args.connection === undefined ? undefined : String(args.connection),
+        rowColumn: args['row-column'] === undefined ? undefined : String(args['row-column']),
+        format: input.format,
+      });
+    } else if (!(await isPlainText(dataPath, input))) {
+      result = await checkTypedInput(dataPath, codebook, options, input, (d) => (io.isTTY && args.quiet !== true && args.json !== true ? withProgress(d, io) : d));
+    } else if (threads > 1) result = await checkFile(dataPath, codebook, { ...options, threads });
     else {
       const opened = await openDelivery(dataPath, { delimiter: options.delimiter, encoding: options.encoding, maxFieldBytes: options.maxFieldBytes });
       const delivery = io.isTTY && args.quiet !== true && args.json !== true ? withProgress(opened, io) : opened;
@@ -140,10 +172,12 @@ export const checkCommand: CommandDef = {
     // The verdict in the summary follows the same threshold as the exit code.
     result.summary.accepted = exit === 0;
     if (args.out !== undefined) await writeCheckOutputs(result, resolve(io.cwd, String(args.out)), { splitBy });
-    if (args.json === true) io.stdout(JSON.stringify(result.summary, null, 2) + '\n');
+    const recorded = season === undefined ? undefined : await season.record(result, codebook, { io, data, dataPath, engine, input, options, splitBy, out: args.out });
+    if (args.json === true) io.stdout(JSON.stringify(recorded === undefined ? result.summary : { ...result.summary, ledger: recorded.json }, null, 2) + '\n');
     else {
       io.stdout(humanReport(result, data, failOnWarning));
       if (args.out !== undefined) io.stdout(`Findings log, missingness and summary written to ${String(args.out)}.\n`);
+      if (recorded !== undefined) io.stdout(recorded.line);
     }
     return exit;
   },

@@ -6,5 +6,6 @@ import { reportCommand } from './report.ts';
 import { draftCommand } from './draft.ts';
 import { compareCommand } from './compare.ts';
 import { historyCommand } from './history.ts';
+import { sqlCommand } from './sql.ts';
 
-export const commands: CommandDef[] = [lintCommand, checkCommand, describeCommand, reportCommand, draftCommand, compareCommand, historyCommand];
+export const commands: CommandDef[] = [lintCommand, checkCommand, describeCommand, reportCommand, draftCommand, compareCommand, historyCommand, sqlCommand];
