@@ -22,12 +22,19 @@
 export type MarginShown = 'shown' | 'fixed' | 'hidden';
 
 export interface SuppressionMargins {
-  /** Row totals (default 'shown'). */
-  rows?: MarginShown;
-  /** Column totals (default 'shown'). */
-  columns?: MarginShown;
+  /** Row totals (default 'shown'); one entry per row to set each. */
+  rows?: MarginShown | readonly MarginShown[];
+  /** Column totals (default 'shown'); one entry per column to set each. */
+  columns?: MarginShown | readonly MarginShown[];
   /** The grand total (default: 'fixed' when both margins are fixed, else as the row totals). */
   grand?: MarginShown;
+}
+
+/** Cells already suppressed elsewhere (another table sharing them): suppressed here from the start. */
+export interface SuppressionPreset {
+  cells?: ReadonlyArray<ReadonlyArray<boolean>>;
+  rowTotals?: readonly boolean[];
+  columnTotals?: readonly boolean[];
 }
 
 /** 0 shown, 1 suppressed because below k, 2 suppressed to protect another cell. */
@@ -108,17 +115,22 @@ function bridges(nodes: number, edges: ReadonlyArray<readonly [number, number]>)
  * Throws nothing. minCell <= 1 suppresses nothing.
  * @example suppressCells([[3, 10], [12, 20]], 5).cells // [[1, 2], [2, 2]]
  */
-export function suppressCells(table: readonly (readonly number[])[], minCell: number, margins: SuppressionMargins = {}): Suppression {
+export function suppressCells(table: readonly (readonly number[])[], minCell: number, margins: SuppressionMargins = {}, preset: SuppressionPreset = {}): Suppression {
   const m = table.length;
   const n = table[0]?.length ?? 0;
   const totals = tableTotals(table);
-  const rowsShown = margins.rows ?? 'shown';
-  const colsShown = margins.columns ?? 'shown';
+  const rowShown = (i: number): MarginShown => (typeof margins.rows === 'string' || margins.rows === undefined ? (margins.rows ?? 'shown') : margins.rows[i]!);
+  const colShown = (j: number): MarginShown => (typeof margins.columns === 'string' || margins.columns === undefined ? (margins.columns ?? 'shown') : margins.columns[j]!);
+  const every = (f: (k: number) => MarginShown, count: number, how: MarginShown): boolean => count > 0 && Array.from({ length: count }, (_, k) => f(k)).every((x) => x === how);
+  const rowsShown = every(rowShown, m, 'fixed') ? 'fixed' : every(rowShown, m, 'hidden') ? 'hidden' : 'shown';
+  const colsShown = every(colShown, n, 'fixed') ? 'fixed' : every(colShown, n, 'hidden') ? 'hidden' : 'shown';
   const grandShown = margins.grand ?? (rowsShown === 'fixed' && colsShown === 'fixed' ? 'fixed' : rowsShown === 'hidden' && colsShown === 'hidden' ? 'hidden' : rowsShown === 'hidden' ? colsShown : rowsShown);
   // The extended table: value and how it is shown, per cell (i in 0..m, j in 0..n).
   const W = n + 1;
   const value = (i: number, j: number): number => (i < m && j < n ? table[i]![j]! : i < m ? totals.rows[i]! : j < n ? totals.columns[j]! : totals.grand);
-  const shownAs = (i: number, j: number): MarginShown => (i < m && j < n ? 'shown' : i < m ? rowsShown : j < n ? colsShown : grandShown);
+  const shownAs = (i: number, j: number): MarginShown => (i < m && j < n ? 'shown' : i < m ? rowShown(i) : j < n ? colShown(j) : grandShown);
+  const presetAt = (i: number, j: number): boolean =>
+    (i < m && j < n ? preset.cells?.[i]?.[j] : i < m ? preset.rowTotals?.[i] : j < n ? preset.columnTotals?.[j] : false) === true;
   const state = new Uint8Array((m + 1) * W);
   let primary = 0;
   for (let i = 0; i <= m; i++) {
@@ -129,7 +141,7 @@ export function suppressCells(table: readonly (readonly number[])[], minCell: nu
       else if (minCell > 1 && how === 'shown' && v >= 1 && v < minCell) {
         state[i * W + j] = 1;
         primary++;
-      }
+      } else if (how === 'shown' && presetAt(i, j)) state[i * W + j] = 2;
     }
   }
   const result = (ok: boolean): Suppression => {
@@ -147,7 +159,7 @@ export function suppressCells(table: readonly (readonly number[])[], minCell: nu
       protected: ok,
     };
   };
-  if (primary === 0 || m === 0 || n === 0) return result(true);
+  if (!state.some((x, c) => x !== 0 && shownAs(Math.floor(c / W), c % W) !== 'hidden') || m === 0 || n === 0) return result(true);
 
   // Nodes: rows 0..m, then columns m+1..m+1+n.
   const nodes = m + 1 + n + 1;

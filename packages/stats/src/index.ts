@@ -38,4 +38,4 @@ export { resolveSampleDesign, designDegreesOfFreedom, type SampleDesign, type Sa
 export { designMean, designProportions, type DesignEstimate, type DesignBase, type Domain } from './taylor-variance.ts';
 export { designEffect, type DesignEffect, type DeffBasis } from './design-effect.ts';
 export { meanInterval, logitInterval, type ConfidenceInterval } from './design-interval.ts';
-export { suppressCells, tableTotals, type Suppression, type SuppressionMargins, type MarginShown, type CellState } from './cell-suppression.ts';
+export { suppressCells, tableTotals, type Suppression, type SuppressionMargins, type SuppressionPreset, type MarginShown, type CellState } from './cell-suppression.ts';

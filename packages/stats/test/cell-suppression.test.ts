@@ -1,13 +1,13 @@
 import { describe, it, expect } from 'vitest';
 import highsLoader from 'highs';
 import { seededRandom } from '@codeweir/core';
-import { suppressCells, tableTotals, type Suppression, type SuppressionMargins } from '../src/cell-suppression.ts';
+import { suppressCells, tableTotals, type MarginShown, type Suppression, type SuppressionMargins } from '../src/cell-suppression.ts';
 
 // The attacker: HiGHS (a linear programming solver from outside the project) bounds every
 // suppressed cell by the linear constraints the shown table gives (cells >= 0, every row and
 // column adding up to its total, the totals to the grand total), and a plain elimination fills
 // any row or column with a single unknown, again and again.
-const highs = await highsLoader();
+const highs = await (highsLoader as unknown as () => Promise<{ solve(lp: string): { Status: string; ObjectiveValue: number } }>)();
 
 type Known = Array<Array<number | null>>;
 
@@ -91,7 +91,8 @@ function audit(table: number[][], k: number, margins: SuppressionMargins = {}): 
   // No count from 1 to k - 1 is shown, margins included (unless published elsewhere).
   shown.forEach((row, i) =>
     row.forEach((v, j) => {
-      const fixed = (i < table.length && j === row.length - 1 && margins.rows === 'fixed') || (i === table.length && margins.columns === 'fixed');
+      const rowFixed = (r: number): boolean => (Array.isArray(margins.rows) ? margins.rows[r] === 'fixed' : margins.rows === 'fixed');
+      const fixed = (i < table.length && j === row.length - 1 && rowFixed(i)) || (i === table.length && margins.columns === 'fixed');
       if (v !== null && !fixed) expect(v === 0 || v >= k, `cell ${i},${j} = ${v}`).toBe(true);
     }),
   );
@@ -154,5 +155,26 @@ describe('cell suppression', () => {
     expect(suppressCells([[1, 2]], 1).primary).toBe(0);
     const s = suppressCells([[5, 6], [7, 0]], 5);
     expect(s.primary + s.complementary).toBe(0);
+  });
+});
+
+describe('cell suppression with cells suppressed elsewhere and margins set one by one', () => {
+  it('protects a preset cell as it protects a small one', () => {
+    // 40 is suppressed by another table sharing it; here it must not follow from its row and column.
+    const table = [[40, 10, 30], [8, 40, 50], [20, 60, 70]];
+    const s = suppressCells(table, 5, {}, { cells: [[true, false, false], [false, false, false], [false, false, false]] });
+    expect(s.cells[0]![0]).toBe(2);
+    expect(s.primary).toBe(0);
+    // The preset cell and the three that protect it.
+    expect(s.complementary).toBe(4);
+  });
+  it('per-row margins: a fixed row total is never suppressed, a shown one may be', () => {
+    const rand = seededRandom(77);
+    for (let t = 0; t < 10; t++) {
+      const table = randomTable(rand, 4, 4);
+      const rows = table.map((_, i): MarginShown => (i % 2 === 0 ? 'fixed' : 'shown'));
+      const s = audit(table, 5, { rows });
+      rows.forEach((how, i) => how === 'fixed' && expect(s.rowTotals[i]).toBe(0));
+    }
   });
 });
