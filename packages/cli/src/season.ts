@@ -4,12 +4,13 @@
  * import of @codeweir/ledger (and so of DuckDB's native module) is dynamic, so a command that
  * does not use the ledger never loads it.
  */
-import { join } from 'node:path';
+import { join, resolve } from 'node:path';
 import type { CheckResult } from '@codeweir/check';
 import type { CompiledCodebook } from '@codeweir/codebook';
 import type { AppendResult, Comparison, DeliverySnapshot, DriftThresholds, History } from '@codeweir/ledger';
 import { CodeweirError } from '@codeweir/core';
 import { isPlainText, type InputFormat } from './formats.ts';
+import type { Io } from './io.ts';
 
 /** `--ledger-wait` as check and report declare it. */
 export const LEDGER_WAIT_OPTION = {
@@ -161,4 +162,57 @@ export async function groupChangeFiles(dir: string, groupItem: string, codes: re
     files.push([join(base, 'changes.csv'), recordsCsv((c?.changes ?? []).filter((x) => x.groups[groupItem] === code), [groupItem])]);
   }
   return files;
+}
+
+export interface LedgerContext {
+  io: Io;
+  /** The delivery as named on the command line, and its resolved path. */
+  data: string;
+  dataPath: string;
+  engine: string;
+  input: InputFormat;
+  options: ReadArgs;
+  splitBy?: string;
+  out?: unknown;
+}
+
+/**
+ * `check --ledger`: validates the ledger options before the check starts, and returns the step
+ * that runs after it: snapshot the checked file, append it to the ledger in one transaction,
+ * compare it with the delivery recorded before, and with `--split-by` write each group's
+ * `changes.json` and `changes.csv` beside its split files. Returns the JSON part (`ledger` in
+ * check's --json) and the terminal line. Throws CodeweirError CW_USAGE for bad options (and
+ * with --engine other than builtin: the ledger records delivery files as the built-in reader reads them).
+ */
+export async function ledgerSetup(args: Record<string, unknown>, cwd: string): Promise<{
+  record(result: CheckResult, codebook: CompiledCodebook, ctx: LedgerContext): Promise<{ json: Record<string, unknown>; line: string }>;
+}> {
+  const ledgerPath = resolve(cwd, String(args.ledger));
+  const waitMs = ledgerWaitMs(args['ledger-wait']);
+  const thresholds = await thresholdsOf(args);
+  if ((args.engine ?? 'builtin') !== 'builtin') throw new CodeweirError('CW_USAGE', '--ledger records delivery files as the built-in engine reads them; leave out --engine to use it.');
+  return {
+    async record(result, codebook, ctx) {
+      if (resolve(ctx.dataPath) === ledgerPath) throw new CodeweirError('CW_USAGE', `--ledger names the delivery itself (${ctx.data}); choose another file for the ledger.`);
+      const snapshot = await snapshotOfResult(result, codebook, ctx.dataPath, ctx.data, ctx.input, ctx.options);
+      const step = await recordInLedger(ledgerPath, snapshot, waitMs, thresholds, ctx.splitBy);
+      if (ctx.splitBy !== undefined && ctx.out !== undefined) {
+        const [{ folderName }, { writeFilesAtomic }] = await Promise.all([import('@codeweir/check'), import('@codeweir/core')]);
+        const codes = Object.keys(result.summary.groups[ctx.splitBy] ?? {});
+        await writeFilesAtomic(await groupChangeFiles(resolve(cwd, String(ctx.out)), ctx.splitBy, codes, step, folderName));
+      }
+      const c = step.comparison;
+      const json: Record<string, unknown> = {
+        file: String(args.ledger),
+        delivery: step.append.delivery,
+        duplicate: step.append.duplicate,
+        deliveries: step.deliveries,
+        previous: step.append.previous?.id ?? null,
+        records: c?.json.records ?? null,
+        newCodes: Object.fromEntries(Object.entries(c?.json.items ?? {}).filter(([, it]) => it.newCodes.length).map(([n, it]) => [n, it.newCodes])),
+        driftFlagged: Object.entries(c?.json.items ?? {}).filter(([, it]) => it.drift?.flagged).map(([n]) => n),
+      };
+      return { json, line: ledgerLine(String(args.ledger), step) };
+    },
+  };
 }

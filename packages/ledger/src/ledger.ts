@@ -7,7 +7,7 @@
  */
 import { mkdir, open, stat } from 'node:fs/promises';
 import { dirname } from 'node:path';
-import { DuckDBInstance, LIST, VARCHAR, listValue, type DuckDBConnection, type DuckDBValue } from '@duckdb/node-api';
+import { DuckDBInstance, listValue, type DuckDBConnection, type DuckDBValue } from '@duckdb/node-api';
 import { CodeweirError } from '@codeweir/core';
 import type { FindingRule } from '@codeweir/check';
 import type { Level, MissingTally } from '@codeweir/codebook';
@@ -50,6 +50,9 @@ export interface AppendResult {
   previous?: DeliveryRow;
   existing?: DeliveryRow;
 }
+
+/** Separates a record's group codes in `records.group_codes` (ASCII unit separator). */
+const UNIT = '\u001f';
 
 const LOCK = /Could not set lock on file|Conflicting lock/i;
 
@@ -326,13 +329,12 @@ export class Ledger {
     await c.run('INSERT INTO record_sets VALUES ($1, $2, $3::VARCHAR[], $4::VARCHAR[], $5, $6)', [id, set.idItem, listValue(set.items), listValue(set.groupItems), set.duplicates, set.unidentified]);
     const a = await c.createAppender('records');
     const w = set.items.length;
-    const listType = LIST(VARCHAR);
     for (let r = 0; r < set.ids.length; r++) {
       a.appendInteger(id);
       a.appendVarchar(set.ids[r]!);
       a.appendVarchar(rowHash(set, r));
       a.appendBlob(asBytes(set.cells.subarray(r * w, (r + 1) * w)));
-      a.appendList(set.groups.map((g) => g[r]!), listType);
+      a.appendVarchar(set.groups.map((g) => g[r]!).join(UNIT));
       a.endRow();
     }
     a.closeSync();
@@ -410,8 +412,8 @@ export class Ledger {
     rows.forEach((r, i) => {
       ids.push(String(r.record_id));
       cells.set(uint32s(r.cell_hashes), i * w);
-      const g = r.group_codes as string[];
-      for (let k = 0; k < groupItems.length; k++) groups[k]!.push(String(g[k]));
+      const g = String(r.group_codes).split(UNIT);
+      for (let k = 0; k < groupItems.length; k++) groups[k]!.push(g[k] ?? '');
     });
     return { idItem: String(head.id_item), items, ids, cells, groupItems, groups, duplicates: num(head.duplicates), unidentified: num(head.unidentified) };
   }

@@ -66,9 +66,9 @@ describe('Ledger', () => {
     const path = join(dir, 'rollback.duckdb');
     const l = await Ledger.open(path);
     await l.append(snapshot('ok'));
-    // A record set whose group codes are short of its ids makes the records appender fail mid-write.
+    // A record without an id makes the records appender fail after the delivery's counts are written.
     const broken = snapshot('broken');
-    broken.records = { ...broken.records!, groups: [['1']] };
+    broken.records = { ...broken.records!, ids: ['a', undefined as unknown as string] };
     await expect(l.append(broken)).rejects.toMatchObject({ code: 'CW_WRITE_FAILED' });
     expect((await l.deliveries()).map((d) => d.hash)).toEqual(['ok']);
     for (const t of ['item_counts', 'missing_counts', 'code_counts', 'item_values', 'records', 'record_sets']) {
