@@ -28,5 +28,5 @@ function step(title, argv, expected) {
 
 step('codeweir lint', ['lint', codebook], [0]);
 step('codeweir check (the demo has planted faults: exit 1 is the expected verdict)', ['check', delivery, '--codebook', codebook, '--out', resolve(out, 'check'), '--split-by', 'team'], [1]);
-step('codeweir report', ['report', delivery, '--codebook', codebook, '-o', resolve(out, 'demo-report.html'), '--pairs', 'all'], [1]);
-process.stderr.write(`\nThe demo report is ${resolve(out, 'demo-report.html')}; the findings log and missingness by team are in ${resolve(out, 'check')}.\n`);
+step('codeweir report', ['report', delivery, '--codebook', codebook, '-o', resolve(out, 'demo-report.html'), '--pairs', 'all', '--split-by', 'team'], [1]);
+process.stderr.write(`\nThe demo report is ${resolve(out, 'demo-report.html')}, one page per field team in ${resolve(out, 'demo-report-team')}; the findings log and missingness by team are in ${resolve(out, 'check')}.\n`);

@@ -9,19 +9,20 @@
  * layout) and by being non-blank, since pixel equality would depend on fonts and rendering.
  */
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { mkdtempSync, writeFileSync, readFileSync, existsSync, rmSync } from 'node:fs';
+import { mkdtempSync, mkdirSync, writeFileSync, readFileSync, existsSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { dirname, join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { chromium, type Browser, type Page } from 'playwright-core';
-import { renderReport } from '@codeweir/report';
-import { loadCodebookOrThrow } from '@codeweir/codebook';
-import { checkFile } from '@codeweir/check';
+import { renderReport, renderSplitReport, UNASSIGNED, type SplitReport } from '@codeweir/report';
+import { loadCodebookOrThrow, type CompiledCodebook } from '@codeweir/codebook';
+import { checkFile, type CheckResult } from '@codeweir/check';
 import { describe as describeData } from '@codeweir/describe';
 import { fixture, PAYLOADS } from '../packages/report/test/fixtures.ts';
 
 const ROOT = resolve(import.meta.dirname, '..');
 const SCREENSHOT = join(ROOT, 'examples', 'report-screenshot.png');
+const TEAM_SCREENSHOT = join(ROOT, 'examples', 'report-team-screenshot.png');
 const VIEWPORT = { width: 1200, height: 1000 };
 let browser: Browser;
 let dir: string;
@@ -48,9 +49,13 @@ interface Opened {
 
 /** Opens `html` from a file:// URL, recording every request and every console or page error. */
 async function open(html: string, name: string): Promise<Opened> {
-  const file = join(dir, name);
-  writeFileSync(file, html);
-  const url = pathToFileURL(file).href;
+  writeFileSync(join(dir, name), html);
+  return openFile(name);
+}
+
+/** Opens a file already written under the temporary folder, recording every request and every console or page error. */
+async function openFile(name: string): Promise<Opened> {
+  const url = pathToFileURL(join(dir, name)).href;
   const page = await browser.newPage({ viewport: VIEWPORT });
   const requests: string[] = [];
   const errors: string[] = [];
@@ -80,6 +85,8 @@ async function chartBoxes(page: Page) {
 describe('report in headless Chromium', () => {
   it('renders every chart with marks, logs no error and requests nothing but the file', async () => {
     const { page, requests, errors, url } = await open(await renderReport(fixture()), 'fixture.html');
+    // Cards are collapsed: open every details element so that the charts inside are laid out.
+    await page.evaluate(() => document.querySelectorAll('details').forEach((d) => (d.open = true)));
     const charts = await chartBoxes(page);
     // Fixture: 1 heat map, bars for team, sex, edu, trips, histogram + box for age and
     // visit_date, and one chart per pair (3): 1 + 4 + 4 + 3 = 12.
@@ -110,32 +117,166 @@ describe('report in headless Chromium', () => {
     await page.close();
   });
 
-  it('screenshots the demo report: non-blank, and as wide as the committed screenshot', async () => {
-    const codebook = await loadCodebookOrThrow(join(ROOT, 'examples', 'household.codebook.json'));
-    const check = await checkFile(join(ROOT, 'examples', 'demo-delivery.csv'), codebook);
-    const described = describeData(check, codebook, { pairs: [['district', 'water_src'], ['hh_size', 'children'], ['district', 'income']] });
-    const html = await renderReport({ check, describe: described, codebook, file: 'examples/demo-delivery.csv', generatedAt: '2026-12-01T00:00:00Z' });
-    const { page, requests, errors, url } = await open(html, 'demo.html');
-    expect(errors).toEqual([]);
-    expect(requests).toEqual([url]);
-    const verdict = await page.textContent('#verdict .badge');
-    expect(verdict).toBe((check.summary.findings.bySeverity.error ?? 0) > 0 ? 'Not accepted' : 'Accepted');
-    const png = await page.screenshot({ clip: { x: 0, y: 0, width: VIEWPORT.width, height: 2400 }, fullPage: true });
-    // PNG: 8-byte signature, then IHDR with width and height as big-endian 32-bit integers.
-    const size = (b: Buffer) => ({ width: b.readUInt32BE(16), height: b.readUInt32BE(20) });
-    expect(size(png)).toEqual({ width: VIEWPORT.width, height: 2400 });
-    // Non-blank: the page holds far more than one colour, so a compressed capture of it is
-    // much larger than a blank one of the same size would be.
-    const blank = await page.evaluate(() => {
-      document.body.innerHTML = '';
-      return true;
+});
+
+/** Every table cell (and index-row cell) that holds a number or a code, with its text's height in lines. */
+async function figureCells(page: Page) {
+  return page.evaluate(() => {
+    // A number as the report writes it (digit groups, decimals, percent, a range or ratio of
+    // numbers, `< 0.001`), or a dash for none; a code is a cell whose text is all in <code>.
+    const NUMBER = /^(?:[<>≥] ?)?[-+]?(?:\d[\d,]*(?:\.\d+)?%?|-|\d{4}-\d{2}-\d{2})(?:(?: to | days|\s*\(\d[\d,]*\/\d[\d,]*\)|\s+\d+(?:\.\d+)?%)?)$/;
+    const cells = [...document.querySelectorAll('td, th, .index .row > span')] as HTMLElement[];
+    const out: Array<{ text: string; lines: number; kind: string }> = [];
+    for (const cell of cells) {
+      const text = (cell.textContent ?? '').trim();
+      if (text === '' || cell.getClientRects().length === 0) continue;
+      const codes = [...cell.querySelectorAll('code')].map((c) => c.textContent ?? '').join('');
+      const isCode = codes !== '' && codes.replace(/\s/g, '') === text.replace(/\s/g, '');
+      const isNumber = NUMBER.test(text);
+      if (!isCode && !isNumber) continue;
+      const range = document.createRange();
+      range.selectNodeContents(cell);
+      const height = range.getBoundingClientRect().height;
+      const style = getComputedStyle(cell.querySelector('code') ?? cell);
+      const lineHeight = parseFloat(style.lineHeight) || parseFloat(style.fontSize) * 1.45;
+      out.push({ text, lines: height / lineHeight, kind: isCode ? 'code' : 'number' });
+    }
+    return out;
+  });
+}
+
+describe('the demo report in headless Chromium at 1200 px', () => {
+  let split: SplitReport;
+  let check: CheckResult;
+  let codebook: CompiledCodebook;
+  let main: Opened;
+  const TIMEOUT = 240_000;
+
+  beforeAll(async () => {
+    codebook = await loadCodebookOrThrow(join(ROOT, 'examples', 'household.codebook.json'));
+    check = await checkFile(join(ROOT, 'examples', 'demo-delivery.csv'), codebook);
+    // As the demo makes it (examples/run-demo.ts): every pair, split by field team.
+    const described = describeData(check, codebook, { pairs: 'all' });
+    split = await renderSplitReport({ check, describe: described, codebook, file: 'examples/demo-delivery.csv', generatedAt: '2026-12-01T00:00:00Z' }, { splitBy: 'team', mainFile: 'demo-report.html' });
+    for (const f of split.files) {
+      mkdirSync(dirname(join(dir, f.path)), { recursive: true });
+      writeFileSync(join(dir, f.path), f.html);
+    }
+    main = await openFile(split.layout.main);
+  }, TIMEOUT);
+
+  it('loads nothing, logs no error, and states the verdict', async () => {
+    expect(main.errors).toEqual([]);
+    expect(main.requests).toEqual([main.url]);
+    expect(await main.page.textContent('#verdict .badge')).toBe((check.summary.findings.bySeverity.error ?? 0) > 0 ? 'Not accepted' : 'Accepted');
+  });
+
+  it('is under 15,000 px tall with the cards collapsed, and every card opens', async () => {
+    const { page } = main;
+    const collapsed = await page.evaluate(() => document.documentElement.scrollHeight);
+    expect(collapsed).toBeLessThan(15_000);
+    const cards = await page.$$eval('details.entry', (els) => els.filter((e) => !(e as HTMLDetailsElement).open).length);
+    expect(cards).toBeGreaterThan(25);
+    // Opened, the same page is several times as long: the cards hold the detail.
+    const opened = await page.evaluate(() => {
+      document.querySelectorAll('details').forEach((d) => (d.open = true));
+      return document.documentElement.scrollHeight;
     });
-    expect(blank).toBe(true);
-    const empty = await page.screenshot({ clip: { x: 0, y: 0, width: VIEWPORT.width, height: 2400 } });
-    expect(png.length).toBeGreaterThan(20 * empty.length);
-    if (process.env.CODEWEIR_UPDATE_SCREENSHOT === '1') writeFileSync(SCREENSHOT, png);
-    expect(existsSync(SCREENSHOT)).toBe(true);
-    expect(size(readFileSync(SCREENSHOT)).width).toBe(VIEWPORT.width);
-    await page.close();
+    expect(opened).toBeGreaterThan(3 * collapsed);
+    await page.evaluate(() => document.querySelectorAll('details').forEach((d) => (d.open = false)));
+    console.log(`demo report at 1200 px: ${collapsed} px collapsed, ${opened} px with every card open`);
+  });
+
+  it('shows the verdict and the whole team table within the first 900 px', async () => {
+    const bottom = (sel: string) => main.page.$eval(sel, (e) => e.getBoundingClientRect().bottom + window.scrollY);
+    expect(await bottom('#verdict')).toBeLessThanOrEqual(900);
+    expect(await bottom('#teams table')).toBeLessThanOrEqual(900);
+    // One row per team of the codebook, each linked to its section on the page.
+    const links = await main.page.$$eval('#teams tbody a[href^="#team-"]', (as) => as.map((a) => a.getAttribute('href')!));
+    expect(links.length).toBeGreaterThanOrEqual(12);
+    for (const href of links) expect(await main.page.$(href)).not.toBeNull();
+  });
+
+  it('renders no number and no code on more than one line, in any table of the main page or a team page', async () => {
+    const pages = [main.page, (await openFile(split.files[1]!.path)).page];
+    for (const page of pages) {
+      await page.evaluate(() => document.querySelectorAll('details').forEach((d) => (d.open = true)));
+      const cells = await figureCells(page);
+      expect(cells.length).toBeGreaterThan(1000);
+      // A cell's text on one line is one line height tall (within rounding).
+      const broken = cells.filter((c) => c.lines > 1.5);
+      expect(broken).toEqual([]);
+    }
+    // The measure itself: squeezed columns that may break anywhere do show as cells on several lines.
+    const page = pages[0]!;
+    await page.addStyleTag({ content: 'td, th, code { white-space: normal !important; overflow-wrap: anywhere !important; } td, th { width: 1ch; max-width: 3ch; }' });
+    expect((await figureCells(page)).filter((c) => c.lines > 1.5).length).toBeGreaterThan(100);
+    await pages[1]!.close();
+  });
+
+  it('prints every collapsed section open', async () => {
+    await main.page.close();
+    main = await openFile(split.layout.main);
+    const { page } = main;
+    const hidden = () => page.$$eval('details.entry > .card', (cards) => cards.filter((c) => !(c as HTMLElement).checkVisibility()).length);
+    expect(await hidden()).toBeGreaterThan(25);
+    await page.emulateMedia({ media: 'print' });
+    expect(await hidden()).toBe(0);
+    await page.emulateMedia({ media: 'screen' });
+  });
+
+  it('gives each team page only that team’s rows, and the pages add up to the whole delivery', async () => {
+    const team = check.store.columns.team!;
+    expect(team.kind).toBe('coded');
+    const teamOfRow = (row: number) => (team.kind === 'coded' ? team.codes[row - 1]! : 0);
+    let rows = 0;
+    let errors = 0;
+    for (const part of split.parts) {
+      const file = split.layout.pages.get(part.row.key)!;
+      const { page, requests, url } = await openFile(file);
+      expect(requests).toEqual([url]);
+      // The delivery rows named by the page's findings all belong to the team.
+      const findingRows = await page.$$eval('#findings details.rule tbody tr td:first-child', (tds) => tds.map((td) => Number((td.textContent ?? '').replace(/,/g, ''))));
+      // The store keeps 1 + the code's index in the codebook, 0 where the cell is not valid.
+      const code = part.row.key === UNASSIGNED ? 0 : 1 + codebook.byName.get('team')!.codeByText.get(part.row.key)!;
+      for (const r of findingRows) expect(teamOfRow(r), `${file} row ${r}`).toBe(code);
+      // The team item's own frequency table on the page counts only this team's code.
+      const freq = await page.$$eval('details.entry', (els) => {
+        const t = els.find((e) => e.querySelector('summary code')?.textContent === 'team');
+        const heading = [...(t?.querySelectorAll('h4') ?? [])].find((h) => h.textContent === 'Frequencies');
+        const rows = heading?.nextElementSibling?.querySelectorAll('tbody tr') ?? [];
+        return [...rows].map((tr) => [...tr.querySelectorAll('td')].slice(0, 3).map((td) => (td.textContent ?? '').trim()));
+      });
+      // (Every code of the codebook is listed; only the team's own has a count.)
+      if (part.row.key !== UNASSIGNED) expect(freq.filter((f) => f[2] !== '0')).toEqual([[part.row.key, expect.any(String), part.row.rows.toLocaleString('en-US')]]);
+      const facts = await page.$$eval('#verdict .facts dd', (dds) => dds.map((d) => (d.textContent ?? '').replace(/,/g, '')));
+      rows += Number(facts[0]);
+      errors += Number(facts[2]);
+      await page.close();
+    }
+    const fileErrors = check.findings.filter((f) => f.row <= 0 && f.severity === 'error').length;
+    expect(rows).toBe(check.summary.rows);
+    expect(errors + fileErrors).toBe(check.summary.findings.bySeverity.error);
+  });
+
+  it('screenshots the first screen and a team page as a supervisor sees them', async () => {
+    const shots: Array<[string, string]> = [
+      [split.layout.main, SCREENSHOT],
+      [split.layout.pages.get('3')!, TEAM_SCREENSHOT],
+    ];
+    for (const [file, target] of shots) {
+      const { page } = await openFile(file);
+      const png = await page.screenshot({ clip: { x: 0, y: 0, width: VIEWPORT.width, height: 900 } });
+      const size = (b: Buffer) => ({ width: b.readUInt32BE(16), height: b.readUInt32BE(20) });
+      expect(size(png)).toEqual({ width: VIEWPORT.width, height: 900 });
+      // Non-blank: a capture of the page is much larger than one of the emptied page.
+      await page.evaluate(() => (document.body.innerHTML = ''));
+      const empty = await page.screenshot({ clip: { x: 0, y: 0, width: VIEWPORT.width, height: 900 } });
+      expect(png.length).toBeGreaterThan(10 * empty.length);
+      if (process.env.CODEWEIR_UPDATE_SCREENSHOT === '1') writeFileSync(target, png);
+      expect(existsSync(target)).toBe(true);
+      expect(size(readFileSync(target))).toEqual({ width: VIEWPORT.width, height: 900 });
+      await page.close();
+    }
   });
 });

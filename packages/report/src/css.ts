@@ -62,11 +62,11 @@ table.wide { width: 100%; }
 .split > div { min-width: 0; }
 .sev { display: inline-block; min-width: 4.6em; font-size: 0.8rem; font-weight: 600; white-space: nowrap; }
 .sev-error { color: var(--dark-orange); }
-.sev-error::before { content: "\\25A0 "; }
+.sev-error::before { content: "\\25A0\\00a0"; }
 .sev-warning { color: var(--warn); }
-.sev-warning::before { content: "\\25B2 "; }
+.sev-warning::before { content: "\\25B2\\00a0"; }
 .sev-info { color: var(--grey); }
-.sev-info::before { content: "\\25CB "; }
+.sev-info::before { content: "\\25CB\\00a0"; }
 .n-error { color: var(--dark-orange); font-weight: 600; }
 .n-warning { color: var(--warn); }
 .none { color: var(--muted); font-style: italic; }
@@ -115,9 +115,10 @@ svg.spark { display: block; }
 .heatmap { min-width: 0; max-width: 100%; }
 .team-cards { display: grid; grid-template-columns: repeat(auto-fill, minmax(340px, 1fr)); gap: 12px; align-items: start; }
 .team-cards .card h3 { margin-bottom: 4px; }
-dl.glossary { margin: 4px 0; }
-dl.glossary dt { font-weight: 600; margin-top: 6px; }
-dl.glossary dd { margin: 0 0 0 18px; }
+dl.glossary { margin: 4px 0 10px; display: grid; grid-template-columns: max-content 1fr; gap: 3px 16px; }
+dl.glossary dt { font-weight: 600; }
+dl.glossary dd { margin: 0; }
+@media (max-width: 700px) { dl.glossary { grid-template-columns: 1fr; } }
 .card .see { font-size: 0.88rem; color: var(--muted); }
 footer { color: var(--muted); font-size: 0.85rem; text-align: center; padding: 10px; }
 @media print {

@@ -124,8 +124,7 @@ function severityTag(s: FindingSeverity): string {
 
 /**
  * Findings: one table by rule (severity, count, the items it hit), then each rule's first rows
- * in a `details` element the table links to (open on a field team's page, where the rows are
- * the work to do).
+ * in a `details` element the table links to.
  */
 export function findingsSection(ctx: Ctx): string {
   const { summary, findings } = ctx.input.check;
@@ -152,7 +151,6 @@ export function findingsSection(ctx: Ctx): string {
   });
 
   const cap = ctx.options.findingsPerRule;
-  const open = team ? ' open' : '';
   const firstRows = rules
     .map((r) => {
       const list = byRule.get(r) ?? [];
@@ -174,7 +172,7 @@ export function findingsSection(ctx: Ctx): string {
         esc(f.message),
         ...(hasSuggestion ? [f.suggestion === undefined ? '' : `<code>${esc(f.suggestion)}</code>`] : []),
       ]);
-      return `<details class="rule" id="rule-${esc(r)}"${open}><summary><code>${esc(r)}</code> ${severityTag(severityOf(ctx, r))} ${esc(plural(total, 'finding'))}</summary><p class="note">${esc(note)}</p>${
+      return `<details class="rule" id="rule-${esc(r)}"><summary><code>${esc(r)}</code> ${severityTag(severityOf(ctx, r))} ${esc(plural(total, 'finding'))}</summary><p class="note">${esc(note)}</p>${
         shown.length > 0 ? table({ head, rows, numeric: [0], className: 'wide' }) : ''
       }</details>`;
     })

@@ -6,6 +6,7 @@ import { itemsSection } from './items.ts';
 import { pairsSection } from './pairs.ts';
 import { teamsSection, teamSectionsSection } from './teams.ts';
 import { glossarySection } from './glossary.ts';
+import { toFixSection } from './to-fix.ts';
 import { pageShell } from './page.ts';
 import { renderCharts } from './vega.ts';
 
@@ -27,6 +28,7 @@ interface Section {
 const SECTIONS: readonly Section[] = [
   { id: 'verdict', label: 'Verdict', render: verdictSection },
   { id: 'teams', label: 'Teams', render: teamsSection },
+  { id: 'to-fix', label: 'Rows to fix', render: toFixSection },
   { id: 'findings', label: 'Findings', render: findingsSection },
   { id: 'header', label: 'Header', render: (ctx) => (ctx.options.team ? '' : headerSection(ctx)) },
   { id: 'rules', label: 'Rules', render: rulesSection },
@@ -40,7 +42,8 @@ const SECTIONS: readonly Section[] = [
 /**
  * Renders the report of one delivery as one self-contained HTML page: inline CSS and SVG, no
  * script, no external resource, a CSP that forbids all network access, print styles. Sections:
- * verdict with its reason, the field teams of a group item (`groupBy`), findings by rule with
+ * verdict with its reason, the field teams of a group item (`groupBy`) (on a team's page: the
+ * team beside the whole delivery and its rows to fix), findings by rule with
  * their rows, header problems, cross-item rules, one section per team, missingness (table by
  * kind, items x groups heat maps), the item index (level, n, missing, invalid, a small chart)
  * whose rows open to each item's card (the chart its level calls for, statistics,

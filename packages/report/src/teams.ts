@@ -176,7 +176,7 @@ export function teamAnchor(group: string, slug: string): string {
 /** What a finding's `item` names: an item, a cross-item rule (rule-failed), or the whole row. */
 export function findingTarget(ctx: Pick<Ctx, 'item'>, name: string): string {
   if (name === '') return 'whole row';
-  return ctx.item(name) ? `<code>${esc(name)}</code>` : `rule <code>${esc(name)}</code>`;
+  return ctx.item(name) ? `<code>${esc(name)}</code>` : `<span class="nobr">rule <code>${esc(name)}</code></span>`;
 }
 
 export const worstText = (ctx: Pick<Ctx, 'item'>, worst: Array<[string, number]>) =>

@@ -84,6 +84,10 @@ describe('renderSplitReport', () => {
     expect(team1).not.toContain('id="rule-unbinned-value"');
     expect(team1).not.toContain('id="rule-outlier"');
     expect(team1).toContain('1 error to fix');
+    // The work list: the one error of the team's rows, at delivery row 4.
+    const toFix = team1.slice(team1.indexOf('<section id="to-fix"'), team1.indexOf('</section>', team1.indexOf('<section id="to-fix"')));
+    expect(toFix).toContain('1 error to fix and 0 warnings to look at again');
+    expect(toFix.match(/<tr><td class="num">(\d+)<\/td>/g)).toEqual(['<tr><td class="num">4</td>']);
     // age in team 1: valid 34, 41, 29 (row 4 is invalid); its median is the middle value, 34.
     expect(team1).toMatch(/<td>valid \(n\)<\/td><td class="num">3<\/td>[^]*?<td>median<\/td><td class="num">34<\/td>/);
     // Its missing percent sits beside the whole delivery's.
@@ -91,6 +95,7 @@ describe('renderSplitReport', () => {
     const team3 = split.files[3]!.html;
     expect(team3).toContain('No errors');
     expect(team3).toContain('id="rule-outlier"');
+    expect(team3).not.toContain('id="to-fix"');
     expect(team3).not.toContain('id="pairs"');
   });
 });
