@@ -301,12 +301,12 @@ export function compileCheckSql(codebook: CompiledCodebook, options: CompileSqlO
 
   const fenced = present.filter((i) => cls[i]!.fenced);
   const chain = [
-    `cw_src AS (SELECT ${srcCols.join(', ')} FROM ${src.from})`,
-    `cw_trim AS (SELECT ${trimCols.join(', ')} FROM cw_src)`,
-    `cw_parse AS (SELECT ${parseCols.join(', ')} FROM cw_trim)`,
-    `cw_cell AS (SELECT ${cellCols.join(', ')} FROM cw_parse)`,
-    `cw_route AS (SELECT ${routeCols.join(', ')} FROM cw_cell)`,
-    `cw_final AS (SELECT ${finalCols.join(', ')} FROM cw_route)`,
+    `cw_src AS ${d.materialize}(SELECT ${srcCols.join(', ')} FROM ${src.from})`,
+    `cw_trim AS ${d.materialize}(SELECT ${trimCols.join(', ')} FROM cw_src)`,
+    `cw_parse AS ${d.materialize}(SELECT ${parseCols.join(', ')} FROM cw_trim)`,
+    `cw_cell AS ${d.materialize}(SELECT ${cellCols.join(', ')} FROM cw_parse)`,
+    `cw_route AS ${d.materialize}(SELECT ${routeCols.join(', ')} FROM cw_cell)`,
+    `cw_final AS ${d.materialize}(SELECT ${finalCols.join(', ')} FROM cw_route)`,
   ];
   // Fence quartiles: one aggregation per fenced item over its valid values (after routing).
   const fenceSelects = fenced.map(
@@ -365,7 +365,7 @@ export function compileCheckSql(codebook: CompiledCodebook, options: CompileSqlO
     const key = numeric ? V(i) : T(i);
     const valueText = numeric ? keyText(item) : T(i);
     findings.push(
-      `SELECT "row", id, item, value, rule, severity, message, suggestion, cw_col, cw_rule, cw_number${gsel} FROM (SELECT cw_row AS "row", cw_id AS id, ${lit(item.name)} AS item, ${valueText} AS value, 'duplicate-id' AS rule, 'error' AS severity, ${template(rules['duplicate-id'].message({ item: item.name, value: MARK }), valueText)} AS message, CAST(NULL AS ${d.text}) AS suggestion, ${num(i)} AS cw_col, ${ruleOrder('duplicate-id')} AS cw_rule, ${numeric ? V(i) : 'NULL'} AS cw_number${gsel}, row_number() OVER (PARTITION BY ${key} ORDER BY cw_row) AS cw_seen FROM cw_final WHERE ${validOf(i)}) cw_dup WHERE cw_seen > 1`,
+      `SELECT "row", id, item, value, rule, severity, message, suggestion, cw_col, cw_rule, cw_number${gsel} FROM (SELECT cw_row AS "row", cw_id AS id, ${lit(item.name)} AS item, ${valueText} AS value, 'duplicate-id' AS rule, 'error' AS severity, ${template(rules['duplicate-id'].message({ item: item.name, value: MARK }), valueText)} AS message, CAST(NULL AS ${d.text}) AS suggestion, ${num(i)} AS cw_col, ${ruleOrder('duplicate-id')} AS cw_rule, ${numeric ? V(i) : `CAST(NULL AS ${d.double})`} AS cw_number${gsel}, row_number() OVER (PARTITION BY ${key} ORDER BY cw_row) AS cw_seen FROM cw_final WHERE ${validOf(i)}) cw_dup WHERE cw_seen > 1`,
     );
   }
   for (const i of routed) {

@@ -24,6 +24,11 @@ export interface Dialect {
    * and the standard's percentile_cont compute.
    */
   quantile(x: string, p: number): string;
+  /**
+   * Written after `AS` in each step of the chain of common table expressions: PostgreSQL inlines
+   * a step used once, which repeats each cell's classification wherever a later step reads it.
+   */
+  materialize: string;
   /** Ordering comparison of two strings by code point, or undefined when the dialect cannot promise that order. */
   stringOrder?(l: string, op: string, r: string): string;
 }
@@ -38,6 +43,7 @@ const DUCKDB: Dialect = {
   regex: (s, re) => `regexp_full_match(${s}, ${re})`,
   trim: (s) => `trim(${s}, ${TRIM_SET})`,
   quantile: (x, p) => `quantile_cont(${x}, ${p})`,
+  materialize: '',
   // DuckDB compares VARCHAR by its UTF-8 bytes, whose order is the code point order.
   stringOrder: (l, op, r) => `(${l} ${op} ${r})`,
 };
@@ -49,6 +55,7 @@ const POSTGRES: Dialect = {
   regex: (s, re) => `(${s} ~ ${re})`,
   trim: (s) => `btrim(${s}, ${TRIM_SET})`,
   quantile: (x, p) => `percentile_cont(${p}) WITHIN GROUP (ORDER BY ${x})`,
+  materialize: 'MATERIALIZED ',
   // The "C" collation orders by bytes; in a UTF-8 database that is the code point order.
   stringOrder: (l, op, r) => `(${l} COLLATE "C" ${op} ${r} COLLATE "C")`,
 };
@@ -60,6 +67,7 @@ const ANSI: Dialect = {
   regex: (s, re) => `REGEXP_LIKE(${s}, ${re})`,
   trim: (s) => `TRIM(BOTH ${TRIM_SET} FROM ${s})`,
   quantile: (x, p) => `percentile_cont(${p}) WITHIN GROUP (ORDER BY ${x})`,
+  materialize: '',
 };
 
 /**
