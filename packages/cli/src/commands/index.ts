@@ -6,6 +6,8 @@ import { reportCommand } from './report.ts';
 import { draftCommand } from './draft.ts';
 import { compareCommand } from './compare.ts';
 import { historyCommand } from './history.ts';
+import { importCommand } from './import.ts';
+import { exportCommand } from './export.ts';
 import { sqlCommand } from './sql.ts';
 
-export const commands: CommandDef[] = [lintCommand, checkCommand, describeCommand, reportCommand, draftCommand, compareCommand, historyCommand, sqlCommand];
+export const commands: CommandDef[] = [lintCommand, checkCommand, describeCommand, reportCommand, draftCommand, compareCommand, historyCommand, importCommand, exportCommand, sqlCommand];
