@@ -25,16 +25,21 @@ interface RawItem {
   expect?: { min?: number; max?: number };
   missing?: string | RawMissing[];
   askedWhen?: string;
+  pattern?: string;
 }
 interface RawCodebook {
   missingSets?: Record<string, RawMissing[]>;
   items: RawItem[];
 }
 
-/** SQL text of routing conditions and rules, keyed by item name and rule id. */
+/**
+ * SQL text of routing conditions and rules, keyed by item name and rule id, over item names
+ * (each read as the item's valid value). A rule's optional `when` limits it to the rows where
+ * that is true (elsewhere the rule is skipped).
+ */
 export interface PeerSqlExtras {
   askedWhen: Record<string, string>;
-  rules: Record<string, { test: string; variables: string[] }>;
+  rules: Record<string, { test: string; variables: string[]; when?: string; whenVariables?: string[] }>;
 }
 
 export interface PeerItem {
@@ -48,7 +53,7 @@ export interface PeerItem {
 export interface PeerResult {
   rows: number;
   items: Record<string, PeerItem>;
-  rules: Record<string, { passed: number; failed: number; undetermined: number }>;
+  rules: Record<string, { passed: number; failed: number; undetermined: number; skipped?: number }>;
   duplicateIds: number;
 }
 
@@ -64,7 +69,9 @@ function missingOf(cb: RawCodebook, item: RawItem): RawMissing[] {
 /**
  * Per item: the classes of a cell as an ordered list of (label, condition), tested in order by
  * one CASE, so each condition assumes the earlier ones failed; the last has no condition (ELSE).
- * Labels: `valid`, `missing|<kind>` (blank included) and `finding|<rule>`.
+ * Labels: `valid`, `missing|<kind>` (blank included) and `finding|<rule>`. A text item's
+ * pattern must match the whole value (`regexp_full_match`; the shapes' patterns use only the
+ * syntax RE2 and JavaScript read alike).
  */
 function classify(cb: RawCodebook, item: RawItem) {
   const x = q(item.name);
@@ -99,6 +106,7 @@ function classify(cb: RawCodebook, item: RawItem) {
     if (outside.length) cases.push(['finding|impossible', outside.join(' OR ')]);
     cases.push(['valid', null]);
   } else {
+    if (item.pattern !== undefined) cases.push(['finding|pattern-mismatch', `NOT regexp_full_match(${x}, ${lit(item.pattern)})`]);
     cases.push(['valid', null]);
   }
   return { x, v, numeric, cases, validK: cases.findIndex(([label]) => label === 'valid') + 1 };
@@ -121,6 +129,9 @@ export function buildPeer(codebook: unknown, csvPath: string, extras: PeerSqlExt
   const validTyped = new Map<string, string>();
   const sub = (expr: string): string =>
     expr.replace(/\b[a-z_][a-z0-9_]*\b/gi, (w) => (validTyped.has(w) ? validTyped.get(w)! : w));
+  // An expression is determined only where every item it reads is valid (codeweir's convention).
+  const determined = (vars: string[]): string => vars.map((vname) => `${validTyped.get(vname)} IS NOT NULL`).join(' AND ') || 'true';
+  const itemsIn = (expr: string): string[] => [...new Set(expr.match(/\b[a-z_][a-z0-9_]*\b/gi) ?? [])].filter((w) => validTyped.has(w));
   for (const item of cb.items) {
     const c = classify(cb, item);
     const n = item.name;
@@ -146,14 +157,22 @@ export function buildPeer(codebook: unknown, csvPath: string, extras: PeerSqlExt
     }
   }
   for (const [id, rule] of Object.entries(extras.rules)) {
-    const allValid = rule.variables.map((vname) => `${validTyped.get(vname)} IS NOT NULL`).join(' AND ');
+    const allValid = determined(rule.variables);
     const typed = sub(rule.test);
-    cols.push(`count_if(${allValid} AND (${typed})) AS ${q(`rule|${id}|passed`)}`);
-    cols.push(`count_if(${allValid} AND NOT (${typed})) AS ${q(`rule|${id}|failed`)}`);
-    cols.push(`count_if(NOT (${allValid})) AS ${q(`rule|${id}|undetermined`)}`);
+    // Rows where the rule applies: all of them, or those where `when` is determined and true.
+    let applies = 'true';
+    if (rule.when !== undefined) {
+      const w = determined(rule.whenVariables ?? itemsIn(rule.when));
+      const wt = sub(rule.when);
+      applies = `(${w} AND (${wt}))`;
+      cols.push(`count_if(${w} AND NOT (${wt})) AS ${q(`rule|${id}|skipped`)}`);
+      cols.push(`count_if(NOT (${w}) OR (${applies} AND NOT (${allValid}))) AS ${q(`rule|${id}|undetermined`)}`);
+    } else cols.push(`count_if(NOT (${allValid})) AS ${q(`rule|${id}|undetermined`)}`);
+    cols.push(`count_if(${applies} AND ${allValid} AND (${typed})) AS ${q(`rule|${id}|passed`)}`);
+    cols.push(`count_if(${applies} AND ${allValid} AND NOT (${typed})) AS ${q(`rule|${id}|failed`)}`);
   }
   for (const [name, cond] of Object.entries(extras.askedWhen)) {
-    cols.push(`count_if((${sub(cond)}) = false AND ${validTyped.get(name)} IS NOT NULL) AS ${q(`${name}|finding|answered-when-skipped`)}`);
+    cols.push(`count_if(${determined(itemsIn(cond))} AND NOT (${sub(cond)}) AND ${validTyped.get(name)} IS NOT NULL) AS ${q(`${name}|finding|answered-when-skipped`)}`);
   }
   const idItem = cb.items.find((i) => i.role === 'id');
   const counts = cols.filter((c) => !c.startsWith('quantile_cont'));
@@ -187,7 +206,7 @@ export function shapePeer(raw: Record<string, Array<Record<string, unknown>>>): 
     const p = key.split('|');
     if (p[0] === 'rule') {
       const r = (out.rules[p[1]] ??= { passed: 0, failed: 0, undetermined: 0 });
-      r[p[2] as 'passed'] = Number(value);
+      r[p[2] as 'passed' | 'skipped'] = Number(value);
     } else if (p[1] === 'valid') itemOf(p[0]).valid = Number(value);
     else if (p[1] === 'missing') {
       if (Number(value) > 0) itemOf(p[0]).missing[p[2]] = Number(value);

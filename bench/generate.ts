@@ -9,6 +9,7 @@
 import { closeSync, mkdirSync, openSync, writeFileSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
 import { seededRandom } from '@codeweir/core';
+import type { PeerSqlExtras } from './duckdb-peer.ts';
 
 export { seededRandom };
 
@@ -23,19 +24,76 @@ export interface ItemTruth {
   impossible: number;
   blank: number;
   missingCodes: number;
+  /** Text values written that do not match the item's pattern. */
+  patternMismatch: number;
+  /** Valid answers written where the item's routing condition is false. */
+  answeredWhenSkipped: number;
+}
+
+/** A fresh, all-zero tally. */
+export function emptyTruth(): ItemTruth {
+  return { notACode: 0, unbinned: 0, notANumber: 0, notAnInteger: 0, impossible: 0, blank: 0, missingCodes: 0, patternMismatch: 0, answeredWhenSkipped: 0 };
+}
+
+/** The cells of an item that any checker must call invalid: every injected fault but blanks and missing codes. */
+export function invalidOf(t: ItemTruth): number {
+  return t.notACode + t.unbinned + t.notANumber + t.notAnInteger + t.impossible + t.patternMismatch + t.answeredWhenSkipped;
+}
+
+/** Cross-item rule outcomes counted while writing (the codebook's rule semantics). */
+export interface RuleTruth {
+  passed: number;
+  failed: number;
+  undetermined: number;
+  skipped: number;
+}
+
+/**
+ * Writes lines to a file in 4 MB chunks (memory stays flat at any row count). `line` takes one
+ * record without its newline; `close` flushes and returns the bytes written.
+ */
+export function openLineWriter(path: string): { line: (text: string) => void; close: () => number } {
+  const fd = openSync(path, 'w');
+  let bytes = 0;
+  const chunk: string[] = [];
+  let chunkLen = 0;
+  const flush = (): void => {
+    if (chunk.length) bytes += writeSync(fd, chunk.join('\n') + '\n');
+    chunk.length = 0;
+    chunkLen = 0;
+  };
+  return {
+    line(text) {
+      chunk.push(text);
+      chunkLen += text.length;
+      if (chunkLen > 4_000_000) flush();
+    },
+    close() {
+      flush();
+      closeSync(fd);
+      return bytes;
+    },
+  };
 }
 
 export interface GeneratedDelivery {
+  /** The delivery's shape (bench/shapes.ts); `mixed` for this file's delivery. */
+  shape: string;
   csvPath: string;
   codebookPath: string;
   rows: number;
   bytes: number;
   items: string[];
+  /** The item with role id (duplicates are counted on it). */
+  idItem: string;
   truth: Record<string, ItemTruth>;
   duplicateIds: number;
+  /** Valid answers written where routing says skip, over all routed items. */
   answeredWhenSkipped: number;
+  /** Outcomes of each rule, counted from construction (absent where the generator does not count them). */
+  rules?: Record<string, RuleTruth>;
   /** The routing condition and rule written as SQL over the typed values (for the SQL peer). */
-  sql: { askedWhen: Record<string, string>; rules: Record<string, { test: string; variables: string[] }> };
+  sql: PeerSqlExtras;
 }
 
 const STD_MISSING = [
@@ -44,12 +102,29 @@ const STD_MISSING = [
   { code: -3, kind: 'not-applicable', label: 'Valid skip' },
 ] as const;
 
-const DISTRICTS = ['Amberlow', 'Corrin Flats', 'Dunmere', 'Faltow', 'Greyhaven', 'Hollin Reach'];
+export const DISTRICTS = ['Amberlow', 'Corrin Flats', 'Dunmere', 'Faltow', 'Greyhaven', 'Hollin Reach'];
 const SYLLABLES = ['ka', 'ren', 'tol', 'mir', 'sa', 'vel', 'dor', 'un', 'bri', 'ost'];
 
-function codes(labels: string[], from = 1): Array<{ code: number; label: string }> {
+/** Codes from..from+n-1 labelled in order. */
+export function codes(labels: readonly string[], from = 1): Array<{ code: number; label: string }> {
   return labels.map((label, i) => ({ code: from + i, label }));
 }
+
+/** Five bins of a count (0, 1-3, 4-7, 8-14, 15 or more): every count >= 0 lies in one. */
+export const COUNT_BINS = [
+  { code: 1, label: 'None', bin: { min: 0, max: 0 } },
+  { code: 2, label: '1 to 3', bin: { min: 1, max: 3 } },
+  { code: 3, label: '4 to 7', bin: { min: 4, max: 7 } },
+  { code: 4, label: '8 to 14', bin: { min: 8, max: 14 } },
+  { code: 5, label: '15 or more', bin: { min: 15 } },
+];
+
+export const WALL_CODES = [
+  { code: 'brick', label: 'Fired brick' },
+  { code: 'timber', label: 'Timber' },
+  { code: 'mud', label: 'Mud and wattle' },
+  { code: 'other', label: 'Other material' },
+];
 
 const LIKERT = ['Strongly disagree', 'Disagree', 'Neither', 'Agree', 'Strongly agree'];
 const LIKERT_ITEMS = Array.from({ length: 10 }, (_, i) => `lk${String(i + 1).padStart(2, '0')}`);
@@ -80,12 +155,7 @@ export function benchCodebook(): Record<string, unknown> {
       label: 'Main wall material',
       type: 'text',
       level: 'nominal',
-      codes: [
-        { code: 'brick', label: 'Fired brick' },
-        { code: 'timber', label: 'Timber' },
-        { code: 'mud', label: 'Mud and wattle' },
-        { code: 'other', label: 'Other material' },
-      ],
+      codes: WALL_CODES,
     },
     {
       name: 'edu',
@@ -108,13 +178,7 @@ export function benchCodebook(): Record<string, unknown> {
       label: 'Trips to the district market last month',
       type: 'integer',
       level: 'ordinal',
-      codes: [
-        { code: 1, label: 'None', bin: { min: 0, max: 0 } },
-        { code: 2, label: '1 to 3', bin: { min: 1, max: 3 } },
-        { code: 3, label: '4 to 7', bin: { min: 4, max: 7 } },
-        { code: 4, label: '8 to 14', bin: { min: 8, max: 14 } },
-        { code: 5, label: '15 or more', bin: { min: 15 } },
-      ],
+      codes: COUNT_BINS,
       missing: 'std',
     },
     {
@@ -246,9 +310,7 @@ export function generateDelivery(opts: GenerateOptions): GeneratedDelivery {
   writeFileSync(codebookPath, JSON.stringify(cb, null, 2) + '\n');
   const itemNames = (cb.items as Array<{ name: string }>).map((i) => i.name);
   const truth: Record<string, ItemTruth> = {};
-  for (const n of itemNames) {
-    truth[n] = { notACode: 0, unbinned: 0, notANumber: 0, notAnInteger: 0, impossible: 0, blank: 0, missingCodes: 0 };
-  }
+  for (const n of itemNames) truth[n] = emptyTruth();
   const t = (n: string): ItemTruth => truth[n];
   const r = rng;
   const int = (lo: number, hi: number): number => lo + Math.floor(r() * (hi - lo + 1));
@@ -309,12 +371,8 @@ export function generateDelivery(opts: GenerateOptions): GeneratedDelivery {
 
   let duplicateIds = 0;
   let answeredWhenSkipped = 0;
-  const fd = openSync(csvPath, 'w');
-  let bytes = 0;
-  const header = itemNames.join(',') + '\n';
-  bytes += writeSync(fd, header);
-  const chunk: string[] = [];
-  let chunkLen = 0;
+  const out = openLineWriter(csvPath);
+  out.line(itemNames.join(','));
   const cells: string[] = new Array(itemNames.length);
   for (let i = 0; i < rows; i++) {
     let c = 0;
@@ -369,23 +427,18 @@ export function generateDelivery(opts: GenerateOptions): GeneratedDelivery {
     }
     cells[c++] = village();
     cells[c++] = (5 + r() * 80).toFixed(1);
-    const line = cells.join(',');
-    chunk.push(line);
-    chunkLen += line.length;
-    if (chunkLen > 4_000_000) {
-      bytes += writeSync(fd, chunk.join('\n') + '\n');
-      chunk.length = 0;
-      chunkLen = 0;
-    }
+    out.line(cells.join(','));
   }
-  if (chunk.length) bytes += writeSync(fd, chunk.join('\n') + '\n');
-  closeSync(fd);
+  const bytes = out.close();
+  truth.hours_work.answeredWhenSkipped = answeredWhenSkipped;
   return {
+    shape: 'mixed',
     csvPath,
     codebookPath,
     rows,
     bytes,
     items: itemNames,
+    idItem: 'resp_id',
     truth,
     duplicateIds,
     answeredWhenSkipped,

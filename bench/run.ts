@@ -1,24 +1,38 @@
 /**
- * `pnpm bench`: generates a seeded synthetic delivery and its codebook under `.bench/`, then
- * times `codeweir check`, `describe --pairs all` and `report` against the same checks written as
- * SQL for DuckDB, alternating codeweir and DuckDB runs in the same session, and prints medians,
- * ratios to DuckDB, peak RSS (from the operating system), rows/s and MB/s, the tokenizer-only
- * floor, the startup cost of `codeweir lint` against a bare `node -e 0`, and optionally a
- * scaling run (10x the rows) and a 10M-row run for peak memory.
+ * `pnpm bench`: generates seeded synthetic deliveries and their codebooks under `.bench/`, one per
+ * shape (bench/shapes.ts: mixed, coded, numeric, text, rules), then times the command users run
+ * (the installed `codeweir` binary) doing check, describe (items), describe --pairs all and report
+ * against the same checks written as SQL for DuckDB, alternating every command and the peer within
+ * each run, and prints per shape the medians, ratios to DuckDB, peak RSS (from the operating
+ * system), rows/s and MB/s, the tokenizer-only floor and the scaling figure (the same commands on
+ * a tenth of the rows, in the same alternation), then a targets table (every shape against the
+ * targets) and the start-up cost of `codeweir lint` against a bare `node -e ''`.
  *
- * Options: --rows N (default 1,000,000), --runs N (default 3), --threads N (passed to codeweir),
- * --scaling, --big (10,000,000 rows, check only, one run), --source (time the CLI from TypeScript
- * source through tsx instead of the bundle), --seed N, --only check,describe,report,duckdb,tokenize,lint.
+ * The DuckDB peer is one job per shape: the check query (every cell classified, routing, rules,
+ * duplicate ids) plus the quartiles of every interval and ratio item; check, describe and report
+ * are each compared with that same job.
+ *
+ * Options: --shapes all|<list> (default mixed), --rows N (default 1,000,000), --runs N (default 3),
+ * --threads N (passed to codeweir), --no-scaling (skip the tenth-of-the-rows runs), --big
+ * (10,000,000 rows, one run: the memory target at 10M rows), --source (time the CLI from
+ * TypeScript source through tsx instead of the binary), --seed N, --json <file> (every figure as
+ * JSON), --only check,duckdb,describe,pairs,report,tokenize,lint.
  */
 import { existsSync, mkdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
+import { cpus, loadavg } from 'node:os';
 import { join, resolve } from 'node:path';
-import { generateDelivery, type GeneratedDelivery } from './generate.ts';
-import { buildPeer, shapePeer, type PeerResult } from './duckdb-peer.ts';
+import { writeFileAtomic } from '@codeweir/core';
+import type { GeneratedDelivery } from './generate.ts';
+import { generateShape, parseShapes, type Shape } from './shapes.ts';
+import { buildPeer, shapePeer } from './duckdb-peer.ts';
+import { agreement, type CheckedSummary } from './agreement.ts';
 import { measureNode, median, rssSource, type Measurement } from './measure.ts';
 import { buildBundle, BIN } from '../scripts/bundle.ts';
 
 const ROOT = resolve(new URL('..', import.meta.url).pathname);
-const DIR = join(ROOT, '.bench');
+// Where deliveries, peer specs and outputs go (a test points it at a temporary folder).
+const DIR = process.env.CODEWEIR_BENCH_DIR ? resolve(process.env.CODEWEIR_BENCH_DIR) : join(ROOT, '.bench');
+const GiB = 2 ** 30;
 
 interface Args {
   rows: number;
@@ -28,97 +42,235 @@ interface Args {
   big: boolean;
   source: boolean;
   seed: number;
+  shapes: Shape[];
+  json?: string;
   only?: Set<string>;
 }
 
+const TASK_KEYS = ['check', 'duckdb', 'describe', 'pairs', 'report', 'tokenize', 'lint'];
+
 function parseArgs(argv: string[]): Args {
-  const a: Args = { rows: 1_000_000, runs: 3, scaling: false, big: false, source: false, seed: 20261201 };
+  const a: Args = { rows: 1_000_000, runs: 3, scaling: true, big: false, source: false, seed: 20261201, shapes: ['mixed'] };
   for (let i = 0; i < argv.length; i++) {
     const k = argv[i];
-    const next = (): number => {
-      const v = Number(argv[++i]);
+    const value = (): string => {
+      const v = argv[++i];
+      if (v === undefined || v.startsWith('--')) throw new Error(`${k} needs a value`);
+      return v;
+    };
+    const whole = (): number => {
+      const v = Number(value());
       if (!Number.isInteger(v) || v < 1) throw new Error(`${k} takes a positive whole number, got ${argv[i]}`);
       return v;
     };
-    if (k === '--rows') a.rows = next();
-    else if (k === '--runs') a.runs = next();
-    else if (k === '--threads') a.threads = next();
-    else if (k === '--seed') a.seed = next();
+    if (k === '--rows') a.rows = whole();
+    else if (k === '--runs') a.runs = whole();
+    else if (k === '--threads') a.threads = whole();
+    else if (k === '--seed') a.seed = whole();
     else if (k === '--scaling') a.scaling = true;
+    else if (k === '--no-scaling') a.scaling = false;
     else if (k === '--big') a.big = true;
     else if (k === '--source') a.source = true;
-    else if (k === '--only') a.only = new Set(argv[++i].split(','));
-    else if (k !== '--') throw new Error(`unknown option ${k} (see the comment at the top of bench/run.ts)`);
+    else if (k === '--shapes') a.shapes = parseShapes(value());
+    else if (k === '--json') a.json = resolve(value());
+    else if (k === '--only') {
+      a.only = new Set(value().split(','));
+      for (const t of a.only) if (!TASK_KEYS.includes(t)) throw new Error(`--only: unknown task ${t}; the tasks are ${TASK_KEYS.join(', ')}`);
+    } else if (k !== '--') throw new Error(`unknown option ${k} (see the comment at the top of bench/run.ts)`);
   }
   return a;
 }
 
-/** Reuses a generated delivery when the same rows and seed were generated before. */
-function delivery(rows: number, seed: number): GeneratedDelivery {
-  const name = `delivery-${rows}-${seed}`;
+/** Reuses a generated delivery when the same shape, rows and seed were generated by the same generator. */
+function delivery(shape: Shape, rows: number, seed: number): GeneratedDelivery {
+  const name = shape === 'mixed' ? `delivery-${rows}-${seed}` : `${shape}-${rows}-${seed}`;
   const meta = join(DIR, `${name}.meta.json`);
-  const generator = statSync(new URL('./generate.ts', import.meta.url)).mtimeMs;
+  const generator = ['./generate.ts', './shapes.ts'].map((f) => statSync(new URL(f, import.meta.url)).mtimeMs).join(',');
   if (existsSync(meta)) {
-    const m = JSON.parse(readFileSync(meta, 'utf8')) as GeneratedDelivery & { generator: number };
+    const m = JSON.parse(readFileSync(meta, 'utf8')) as GeneratedDelivery & { generator: string };
     if (m.generator === generator && existsSync(m.csvPath)) return m;
   }
-  process.stderr.write(`generating ${rows.toLocaleString('en')} rows...\n`);
-  const g = generateDelivery({ rows, seed, dir: DIR, name });
+  process.stderr.write(`generating ${shape}, ${rows.toLocaleString('en')} rows...\n`);
+  const g = generateShape(shape, { rows, seed, dir: DIR, name });
   writeFileSync(meta, JSON.stringify({ ...g, generator }));
   return g;
 }
 
-const fmt = (s: number): string => (s < 10 ? s.toFixed(2) : s.toFixed(1));
+const fmt = (s: number): string => (!Number.isFinite(s) ? 'n/a' : s < 10 ? s.toFixed(2) : s.toFixed(1));
 const mib = (b: number): string => (Number.isFinite(b) ? `${Math.round(b / 2 ** 20)} MiB` : 'n/a');
+const count = (n: number): string => n.toLocaleString('en');
 
-interface Row {
-  task: string;
-  runs: Measurement[];
+interface Task {
+  key: string;
+  label: string;
+  args: string[];
+  ok: number[];
 }
 
-function table(rows: Row[], g: GeneratedDelivery, duck?: Row): string {
-  const dMed = duck ? median(duck.runs.map((r) => r.seconds)) : NaN;
-  const lines = [
-    `| task | median s | min s | max s | / DuckDB | peak RSS | rows/s | MB/s |`,
-    `|---|---:|---:|---:|---:|---:|---:|---:|`,
+interface Timed {
+  seconds: number[];
+  peakRss: number[];
+  /** Standard output of the first run (the check summary, the peer's tallies). */
+  stdout: string;
+}
+
+interface TaskFigures {
+  label: string;
+  seconds: number[];
+  median: number;
+  min: number;
+  max: number;
+  /** Largest peak RSS over the runs, bytes. */
+  peakRss: number;
+  /** Median over the DuckDB peer's median (absent for the peer itself and the floor). */
+  ratioToDuckdb?: number;
+  /** The same task on a tenth of the rows, and full-size median over small-size median. */
+  scaling?: { rows: number; seconds: number[]; median: number; peakRss: number; ratio: number };
+  failed?: string;
+}
+
+interface ShapeFigures {
+  rows: number;
+  items: number;
+  bytes: number;
+  tasks: Record<string, TaskFigures>;
+  /** Disagreements between codeweir, the SQL peer and the generator; empty when all agree. */
+  agreement: string[] | null;
+}
+
+/** The commands timed on one delivery; `tag` keeps the output of full and small runs apart. */
+function tasksFor(g: GeneratedDelivery, cli: string[], threads: string[], specFile: string, out: string, big: boolean): Task[] {
+  mkdirSync(out, { recursive: true });
+  const data = [g.csvPath, '--codebook', g.codebookPath];
+  const tasks: Task[] = [
+    { key: 'check', label: 'codeweir check', args: [...cli, 'check', ...data, '--out', join(out, 'check'), '--json', ...threads], ok: [0, 1] },
+    { key: 'duckdb', label: 'DuckDB SQL peer', args: [join(ROOT, 'bench/duckdb-child.mjs'), specFile], ok: [0] },
+    { key: 'describe', label: 'codeweir describe', args: [...cli, 'describe', ...data, '--json', ...threads], ok: [0, 1] },
+    { key: 'pairs', label: 'codeweir describe --pairs all', args: [...cli, 'describe', ...data, '--pairs', 'all', '--json', ...threads], ok: [0, 1] },
+    { key: 'report', label: 'codeweir report', args: [...cli, 'report', ...data, '-o', join(out, 'report.html'), ...threads], ok: [0, 1] },
   ];
-  for (const r of rows) {
-    const t = r.runs.map((m) => m.seconds);
-    const med = median(t);
-    const peak = Math.max(...r.runs.map((m) => m.peakRss));
-    const ratio = duck && r !== duck ? (med / dMed).toFixed(2) : duck ? '1.00' : '';
+  if (!big) tasks.push({ key: 'tokenize', label: 'tokenizer only (floor)', args: ['--conditions=source', '--import', 'tsx', join(ROOT, 'bench/tokenize.ts'), g.csvPath], ok: [0] });
+  return tasks;
+}
+
+function peerSpec(g: GeneratedDelivery): string {
+  const specFile = join(DIR, `peer-${g.shape}-${g.rows}.json`);
+  writeFileSync(specFile, JSON.stringify(buildPeer(JSON.parse(readFileSync(g.codebookPath, 'utf8')), g.csvPath, g.sql)));
+  return specFile;
+}
+
+/** Runs every wanted task of every delivery `runs` times, alternating, and keeps the times. */
+async function alternate(groups: Array<{ name: string; tasks: Task[] }>, runs: number, want: (k: string) => boolean): Promise<Map<string, Timed | string>> {
+  const results = new Map<string, Timed | string>();
+  for (let r = 0; r < runs; r++) {
+    for (const { name, tasks } of groups) {
+      for (const t of tasks) {
+        const id = `${name}/${t.key}`;
+        if (!want(t.key) || typeof results.get(id) === 'string') continue;
+        try {
+          const m: Measurement = await measureNode(t.args, ROOT, t.ok);
+          const row = (results.get(id) as Timed | undefined) ?? { seconds: [], peakRss: [], stdout: m.stdout };
+          row.seconds.push(m.seconds);
+          row.peakRss.push(m.peakRss);
+          results.set(id, row);
+          process.stderr.write(`  run ${r + 1} ${name} ${t.label}: ${fmt(m.seconds)} s, ${mib(m.peakRss)}\n`);
+        } catch (e) {
+          results.set(id, (e as Error).message);
+          process.stderr.write(`  run ${r + 1} ${name} ${t.label} failed: ${(e as Error).message.split('\n')[0]}\n`);
+        }
+      }
+    }
+  }
+  return results;
+}
+
+function shapeTable(f: ShapeFigures): string {
+  const lines = [
+    '| task | median s | min s | max s | / DuckDB | peak RSS | rows/s | MB/s | 10x rows |',
+    '|---|---:|---:|---:|---:|---:|---:|---:|---:|',
+  ];
+  for (const t of Object.values(f.tasks)) {
+    if (t.failed) {
+      lines.push(`| ${t.label} | did not complete | | | | | | | |`);
+      continue;
+    }
+    const ratio = t.ratioToDuckdb === undefined ? (t.label.startsWith('DuckDB') ? '1.00' : '') : t.ratioToDuckdb.toFixed(2);
+    const scale = t.scaling ? `${t.scaling.ratio.toFixed(2)}x (${fmt(t.scaling.median)} s at ${count(t.scaling.rows)})` : '';
     lines.push(
-      `| ${r.task} | ${fmt(med)} | ${fmt(Math.min(...t))} | ${fmt(Math.max(...t))} | ${ratio} | ${mib(peak)} | ` +
-        `${Math.round(g.rows / med).toLocaleString('en')} | ${(g.bytes / 1e6 / med).toFixed(1)} |`,
+      `| ${t.label} | ${fmt(t.median)} | ${fmt(t.min)} | ${fmt(t.max)} | ${ratio} | ${mib(t.peakRss)} | ` +
+        `${count(Math.round(f.rows / t.median))} | ${(f.bytes / 1e6 / t.median).toFixed(1)} | ${scale} |`,
     );
   }
   return lines.join('\n');
 }
 
-/** Compares codeweir's per-item counts with the SQL peer's, so a fast wrong answer shows. */
-function agreement(summaryJson: string, peer: PeerResult): string[] {
-  const out: string[] = [];
-  let summary: { rows: number; items: Record<string, { valid: number; invalid: number }> };
-  try {
-    summary = JSON.parse(summaryJson);
-  } catch {
-    return ['codeweir check --json did not print one JSON document; agreement not compared.'];
+interface Target {
+  target: string;
+  limit: string;
+  shape: string;
+  value: number;
+  shown: string;
+  met: boolean;
+}
+
+/** The issue's targets, one entry per shape and command where the figure was measured. */
+function targetsOf(shapes: Record<string, ShapeFigures>, big: boolean): Target[] {
+  const out: Target[] = [];
+  const ratioLimits: Array<[string, string, number]> = [
+    ['check', 'check / DuckDB', 1.0],
+    ['describe', 'describe (items) / DuckDB', 1.0],
+    ['pairs', 'describe --pairs all / DuckDB', 1.5],
+    ['report', 'report / DuckDB', 1.2],
+  ];
+  const each = (fn: (shape: string, f: ShapeFigures) => void): void => Object.entries(shapes).forEach(([s, f]) => fn(s, f));
+  for (const [key, target, limit] of ratioLimits) {
+    each((shape, f) => {
+      const r = f.tasks[key]?.ratioToDuckdb;
+      if (r !== undefined) out.push({ target, limit: `<= ${limit.toFixed(1)}`, shape, value: r, shown: r.toFixed(2), met: r <= limit });
+    });
   }
-  if (summary.rows !== peer.rows) out.push(`rows: codeweir ${summary.rows}, DuckDB ${peer.rows}`);
-  for (const [name, p] of Object.entries(peer.items)) {
-    const c = summary.items?.[name];
-    if (!c) out.push(`${name}: missing from codeweir's summary`);
-    else if (c.invalid !== p.invalid) out.push(`${name}: invalid codeweir ${c.invalid}, DuckDB ${p.invalid}`);
+  const memLimit = big ? 2 * GiB : GiB;
+  for (const key of ['check', 'describe', 'pairs', 'report']) {
+    each((shape, f) => {
+      const t = f.tasks[key];
+      if (t && !t.failed) out.push({ target: `peak RSS, ${t.label.replace('codeweir ', '')}`, limit: `<= ${big ? '2 GiB at 10M rows' : '1 GiB at 1M rows'}`, shape, value: t.peakRss, shown: mib(t.peakRss), met: t.peakRss <= memLimit });
+    });
   }
+  for (const key of ['check', 'describe', 'pairs', 'report']) {
+    each((shape, f) => {
+      const s = f.tasks[key]?.scaling;
+      if (s) out.push({ target: `10x rows, ${f.tasks[key]!.label.replace('codeweir ', '')}`, limit: '<= 10.5x time', shape, value: s.ratio, shown: `${s.ratio.toFixed(2)}x`, met: s.ratio <= 10.5 });
+    });
+  }
+  each((shape, f) => {
+    if (f.agreement) out.push({ target: 'agreement with the SQL peer and the generator', limit: 'all equal', shape, value: f.agreement.length, shown: f.agreement.length ? `${f.agreement.length} differ` : 'equal', met: f.agreement.length === 0 });
+  });
   return out;
+}
+
+/** Targets as one table: a row per target, a column per shape. */
+function targetsTable(targets: Target[], shapes: string[], rows: number): string {
+  const lines = [`| target | limit | ${shapes.join(' | ')} |`, `|---|---|${shapes.map(() => '---:').join('|')}|`];
+  const byTarget = new Map<string, Target[]>();
+  for (const t of targets) byTarget.set(t.target, [...(byTarget.get(t.target) ?? []), t]);
+  for (const [target, list] of byTarget) {
+    const cells = shapes.map((s) => {
+      const t = list.find((x) => x.shape === s);
+      return t ? `${t.shown} ${t.met ? 'met' : 'NOT met'}` : '';
+    });
+    lines.push(`| ${target} | ${list[0]!.limit} | ${cells.join(' | ')} |`);
+  }
+  if (rows !== 1_000_000 && rows !== 10_000_000) lines.push(`\nThe memory targets are set for 1M and 10M rows; these figures are for ${count(rows)} rows.`);
+  return lines.join('\n');
 }
 
 async function main(): Promise<void> {
   const args = parseArgs(process.argv.slice(2));
   mkdirSync(DIR, { recursive: true });
-  const want = (k: string): boolean => !args.only || args.only.has(k);
+  const want = (k: string): boolean => (!args.only || args.only.has(k)) && (!args.big || k !== 'tokenize');
+  const load: { start: number[]; end?: number[] } = { start: loadavg() };
   let cli: string[];
-  if (args.source) cli = ['--import', 'tsx', join(ROOT, 'packages/cli/src/bin.ts')];
+  if (args.source) cli = ['--conditions=source', '--import', 'tsx', join(ROOT, 'packages/cli/src/bin.ts')];
   else {
     // The file npm and pnpm link as the `codeweir` binary, which loads the bundle beside it.
     await buildBundle();
@@ -126,97 +278,135 @@ async function main(): Promise<void> {
   }
   const threads = args.threads ? ['--threads', String(args.threads)] : [];
   const rows = args.big ? 10_000_000 : args.rows;
-  const g = delivery(rows, args.seed);
-  const out = join(DIR, 'out');
-  mkdirSync(out, { recursive: true });
-  const specFile = join(DIR, `peer-${rows}.json`);
-  const codebook = JSON.parse(readFileSync(g.codebookPath, 'utf8'));
-  writeFileSync(specFile, JSON.stringify(buildPeer(codebook, g.csvPath, g.sql)));
-
-  const tasks: Array<{ key: string; task: string; args: string[]; ok: number[] }> = [];
-  const check = { key: 'check', task: 'codeweir check', args: [...cli, 'check', g.csvPath, '--codebook', g.codebookPath, '--out', out, '--json', ...threads], ok: [0, 1] };
-  tasks.push(check);
-  tasks.push({ key: 'duckdb', task: 'DuckDB SQL peer', args: [join(ROOT, 'bench/duckdb-child.mjs'), specFile], ok: [0] });
-  if (!args.big) {
-    tasks.push({ key: 'describe', task: 'codeweir describe --pairs all', args: [...cli, 'describe', g.csvPath, '--codebook', g.codebookPath, '--pairs', 'all', '--json', ...threads], ok: [0, 1] });
-    tasks.push({ key: 'report', task: 'codeweir report', args: [...cli, 'report', g.csvPath, '--codebook', g.codebookPath, '-o', join(out, 'report.html'), ...threads], ok: [0, 1] });
-    tasks.push({ key: 'tokenize', task: 'tokenizer only (floor)', args: ['--import', 'tsx', join(ROOT, 'bench/tokenize.ts'), g.csvPath], ok: [0] });
-  }
   const runs = args.big ? 1 : args.runs;
-  const results = new Map<string, Row>();
-  const failed = new Map<string, string>();
-  process.stderr.write(`${g.rows.toLocaleString('en')} rows x ${g.items.length} items, ${(g.bytes / 1e6).toFixed(1)} MB; ${runs} runs each, alternating\n`);
-  for (let r = 0; r < runs; r++) {
-    for (const t of tasks) {
-      if (!want(t.key) || failed.has(t.key)) continue;
+  const smallRows = Math.max(1, Math.round(rows / 10));
+  const out = join(DIR, 'out');
+
+  const groups: Array<{ name: string; tasks: Task[] }> = [];
+  const deliveries = new Map<string, GeneratedDelivery>();
+  for (const shape of args.shapes) {
+    const g = delivery(shape, rows, args.seed);
+    deliveries.set(shape, g);
+    groups.push({ name: shape, tasks: tasksFor(g, cli, threads, peerSpec(g), join(out, shape), args.big) });
+    if (args.scaling) {
+      const s = delivery(shape, smallRows, args.seed);
+      // The floor and the peer are not scaling targets; the small runs time codeweir's commands.
+      const small = tasksFor(s, cli, threads, peerSpec(s), join(out, `${shape}-small`), true).filter((t) => t.key !== 'duckdb');
+      groups.push({ name: `${shape}@${count(smallRows)}`, tasks: small });
+    }
+  }
+  process.stderr.write(
+    `${args.shapes.join(', ')}: ${count(rows)} rows${args.scaling ? ` (and ${count(smallRows)} for scaling)` : ''}; ${runs} runs each, alternating\n`,
+  );
+  const results = await alternate(groups, runs, want);
+
+  const shapes: Record<string, ShapeFigures> = {};
+  for (const shape of args.shapes) {
+    const g = deliveries.get(shape)!;
+    const f: ShapeFigures = { rows: g.rows, items: g.items.length, bytes: g.bytes, tasks: {}, agreement: null };
+    const duck = results.get(`${shape}/duckdb`);
+    const duckMedian = typeof duck === 'object' ? median(duck.seconds) : NaN;
+    for (const t of groups.find((x) => x.name === shape)!.tasks) {
+      const r = results.get(`${shape}/${t.key}`);
+      if (r === undefined) continue;
+      if (typeof r === 'string') {
+        f.tasks[t.key] = { label: t.label, seconds: [], median: NaN, min: NaN, max: NaN, peakRss: NaN, failed: r };
+        continue;
+      }
+      const tf: TaskFigures = { label: t.label, seconds: r.seconds, median: median(r.seconds), min: Math.min(...r.seconds), max: Math.max(...r.seconds), peakRss: Math.max(...r.peakRss) };
+      if (t.key !== 'duckdb' && t.key !== 'tokenize' && Number.isFinite(duckMedian)) tf.ratioToDuckdb = tf.median / duckMedian;
+      const s = results.get(`${shape}@${count(smallRows)}/${t.key}`);
+      if (typeof s === 'object') {
+        const sm = median(s.seconds);
+        tf.scaling = { rows: smallRows, seconds: s.seconds, median: sm, peakRss: Math.max(...s.peakRss), ratio: tf.median / sm };
+      }
+      f.tasks[t.key] = tf;
+    }
+    const ck = results.get(`${shape}/check`);
+    if (typeof duck === 'object' && typeof ck === 'object') {
       try {
-        const m = await measureNode(t.args, ROOT, t.ok);
-        const row = results.get(t.key) ?? { task: t.task, runs: [] };
-        row.runs.push(m);
-        results.set(t.key, row);
-        process.stderr.write(`  run ${r + 1} ${t.task}: ${fmt(m.seconds)} s, ${mib(m.peakRss)}\n`);
-      } catch (e) {
-        failed.set(t.key, (e as Error).message);
+        f.agreement = agreement(JSON.parse(ck.stdout) as CheckedSummary, shapePeer(JSON.parse(duck.stdout)), g);
+      } catch {
+        f.agreement = ['codeweir check --json or the peer did not print one JSON document; agreement not compared.'];
       }
     }
-  }
-  const report: string[] = [];
-  report.push(`## codeweir bench: ${g.rows.toLocaleString('en')} rows x ${g.items.length} items (${(g.bytes / 1e6).toFixed(1)} MB)`);
-  report.push(`Node ${process.version}; ${runs} alternating runs each; peak RSS from ${rssSource}; CLI: ${args.source ? 'tsx from source' : 'the codeweir binary (packages/cli/bin/codeweir.mjs, as installed)'}${args.threads ? `; --threads ${args.threads}` : ''}.`);
-  report.push('');
-  report.push(table([...results.values()], g, results.get('duckdb')));
-  for (const [k, msg] of failed) report.push(`\n${k} did not complete: ${msg}`);
-  const duck = results.get('duckdb');
-  const ck = results.get('check');
-  if (duck && ck) {
-    const peer = shapePeer(JSON.parse(duck.runs[0].stdout));
-    const diff = agreement(ck.runs[0].stdout, peer);
-    report.push(diff.length ? `\nDisagreement with the SQL peer:\n- ${diff.join('\n- ')}` : '\ncodeweir and the SQL peer agree on rows and the invalid count of every item.');
-  }
-  const targets: string[] = [];
-  const med = (k: string): number => median(results.get(k)?.runs.map((m) => m.seconds) ?? [NaN]);
-  const peakOf = (k: string): number => Math.max(...(results.get(k)?.runs.map((m) => m.peakRss) ?? [NaN]));
-  const verdict = (ok: boolean): string => (ok ? 'met' : 'NOT met');
-  if (duck && ck) targets.push(`check / DuckDB = ${(med('check') / med('duckdb')).toFixed(2)} (target <= 1.0: ${verdict(med('check') <= med('duckdb'))})`);
-  if (duck && results.has('report')) targets.push(`report / DuckDB = ${(med('report') / med('duckdb')).toFixed(2)} (target <= 2.0: ${verdict(med('report') <= 2 * med('duckdb'))})`);
-  const limit = args.big ? 2 * 2 ** 30 : 2 ** 30;
-  for (const k of ['check', 'describe', 'report']) {
-    if (results.has(k)) targets.push(`${k} peak RSS ${mib(peakOf(k))} (target <= ${args.big ? '2 GiB' : '1 GiB'}: ${verdict(peakOf(k) <= limit)})`);
+    shapes[shape] = f;
   }
 
-  if (!args.big && args.scaling && want('check')) {
-    const small = delivery(Math.max(1, Math.round(rows / 10)), args.seed);
-    const smallArgs = [...cli, 'check', small.csvPath, '--codebook', small.codebookPath, '--out', join(out, 'small'), '--json', ...threads];
-    const a: number[] = [];
-    const b: number[] = [];
-    for (let r = 0; r < runs; r++) {
-      a.push((await measureNode(smallArgs, ROOT, [0, 1])).seconds);
-      b.push((await measureNode(check.args, ROOT, [0, 1])).seconds);
-    }
-    const ratio = median(b) / median(a);
-    targets.push(
-      `scaling: check of ${small.rows.toLocaleString('en')} rows ${fmt(median(a))} s, of ${rows.toLocaleString('en')} rows ${fmt(median(b))} s: 10x rows = ${ratio.toFixed(2)}x time (target <= 11: ${verdict(ratio <= 11)})`,
-    );
-  }
-
+  let lint: { bare: number[]; lint: number[]; source: number[]; ratio: number } | undefined;
   if (!args.big && want('lint')) {
-    const bare: number[] = [];
-    const lint: number[] = [];
-    const lintSource: number[] = [];
+    const l = { bare: [] as number[], lint: [] as number[], source: [] as number[], ratio: NaN };
     const lintArgs = ['lint', join(ROOT, 'examples/household.codebook.json')];
     for (let r = 0; r < Math.max(5, runs); r++) {
-      bare.push((await measureNode(['-e', '0'], ROOT)).seconds);
-      lint.push((await measureNode([...cli, ...lintArgs], ROOT, [0, 1])).seconds);
-      if (!args.source) lintSource.push((await measureNode(['--import', 'tsx', join(ROOT, 'packages/cli/src/bin.ts'), ...lintArgs], ROOT, [0, 1])).seconds);
+      l.bare.push((await measureNode(['-e', ''], ROOT)).seconds);
+      l.lint.push((await measureNode([...cli, ...lintArgs], ROOT, [0, 1])).seconds);
+      if (!args.source) l.source.push((await measureNode(['--conditions=source', '--import', 'tsx', join(ROOT, 'packages/cli/src/bin.ts'), ...lintArgs], ROOT, [0, 1])).seconds);
     }
-    const ratio = median(lint) / median(bare);
-    targets.push(`lint: ${fmt(median(lint))} s vs bare node ${fmt(median(bare))} s = ${ratio.toFixed(1)}x (target <= 3x: ${verdict(ratio <= 3)})`);
-    if (lintSource.length) targets.push(`lint from TypeScript source through tsx: ${fmt(median(lintSource))} s = ${(median(lintSource) / median(bare)).toFixed(1)}x bare node`);
+    l.ratio = median(l.lint) / median(l.bare);
+    lint = l;
   }
-  if (targets.length) report.push(`\nTargets:\n- ${targets.join('\n- ')}`);
+  load.end = loadavg();
+
+  const cliName = args.source ? 'tsx from source' : 'the codeweir binary (packages/cli/bin/codeweir.mjs, as installed)';
+  const report: string[] = [];
+  report.push(`## codeweir bench: ${args.shapes.join(', ')} at ${count(rows)} rows`);
+  report.push(
+    `Node ${process.version}; ${cpus().length} cores; load average ${load.start[0]!.toFixed(2)} at the start, ${(load.end ?? [NaN])[0]!.toFixed(2)} at the end; ` +
+      `${runs} alternating runs each; peak RSS from ${rssSource}; CLI: ${cliName}${args.threads ? `; --threads ${args.threads}` : ''}. ` +
+      'DuckDB peer: the check query (every cell classified, routing, rules, duplicate ids) and the quartiles of every interval and ratio item, in one job; every command is compared with it.',
+  );
+  for (const [shape, f] of Object.entries(shapes)) {
+    report.push('');
+    report.push(`### ${shape}: ${count(f.rows)} rows x ${f.items} items (${(f.bytes / 1e6).toFixed(1)} MB)`);
+    report.push('');
+    report.push(shapeTable(f));
+    for (const [k, t] of Object.entries(f.tasks)) if (t.failed) report.push(`\n${k} did not complete: ${t.failed}`);
+    if (f.agreement) {
+      report.push(
+        f.agreement.length
+          ? `\nDisagreement between codeweir, the SQL peer and the generator:\n- ${f.agreement.join('\n- ')}`
+          : '\ncodeweir, the SQL peer and the generator agree on rows, every item\'s invalid count and faults, duplicate ids and every rule.',
+      );
+    }
+  }
+  const targets = targetsOf(shapes, args.big);
+  if (lint) {
+    targets.push({ target: "lint start-up / bare node -e ''", limit: '<= 1.5x', shape: 'all', value: lint.ratio, shown: `${lint.ratio.toFixed(2)}x`, met: lint.ratio <= 1.5 });
+  }
+  if (targets.length) {
+    report.push('\n### Targets\n');
+    report.push(targetsTable(targets.filter((t) => t.shape !== 'all'), args.shapes, rows));
+    if (lint) {
+      const srcNote = lint.source.length ? `; from TypeScript source through tsx ${fmt(median(lint.source))} s = ${(median(lint.source) / median(lint.bare)).toFixed(1)}x` : '';
+      report.push(
+        `\nlint start-up: ${fmt(median(lint.lint))} s against bare node ${fmt(median(lint.bare))} s = ${lint.ratio.toFixed(2)}x (target <= 1.5x: ${lint.ratio <= 1.5 ? 'met' : 'NOT met'})${srcNote}.`,
+      );
+    }
+  }
   const text = report.join('\n') + '\n';
   process.stdout.write(text);
   writeFileSync(join(DIR, `results-${rows}.md`), text);
+  if (args.json) {
+    const doc = {
+      generated: new Date().toISOString(),
+      node: process.version,
+      cores: cpus().length,
+      loadAverage: load,
+      cli: args.source ? 'source' : 'binary',
+      threads: args.threads ?? null,
+      rows,
+      runs,
+      seed: args.seed,
+      peakRssSource: rssSource,
+      peer: 'check query and quartiles of every interval and ratio item, one job',
+      shapes,
+      lint: lint ? { bareSeconds: lint.bare, lintSeconds: lint.lint, sourceSeconds: lint.source, ratio: lint.ratio } : null,
+      targets,
+    };
+    await writeFileAtomic(args.json, JSON.stringify(doc, null, 2) + '\n');
+  }
+  const disagree = Object.values(shapes).some((f) => f.agreement?.length);
+  if (disagree) process.exitCode = 1;
 }
 
 main().catch((e: unknown) => {
