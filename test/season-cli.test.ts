@@ -214,3 +214,37 @@ describe('check --ledger, history, --split-by', () => {
     expect(notLedger.err.trim().split('\n')).toHaveLength(1);
   });
 });
+
+describe('report --previous / --ledger', () => {
+  it('adds "Since the previous delivery" with the record counts and per-team small multiples, self-contained', async () => {
+    const r = await cli(['report', 'week2.csv', '--codebook', 'cb.json', '-o', 'rep.html', '--previous', 'week1.csv', '--threads', '1'], dir);
+    expect(r.code, r.err).toBe(0);
+    const html = await readFile(join(dir, 'rep.html'), 'utf8');
+    const section = html.slice(html.indexOf('<section id="season"'), html.indexOf('</section>', html.indexOf('<section id="season"')));
+    expect(section).toMatch(/Since the previous delivery/);
+    // First principles as in compare: 40 ids new, 20 gone.
+    expect(section).toMatch(/<strong>40<\/strong> added, <strong>20<\/strong> removed/);
+    // income drifts beyond the default thresholds (R: p 0.005, PSI 0.20); it is listed and flagged.
+    expect(section).toMatch(/<code>income<\/code>[^]*flagged/);
+    // Two trend charts of small multiples, inline SVG, one panel per team code.
+    const svgs = section.match(/<svg[^]*?<\/svg>/g) ?? [];
+    expect(svgs).toHaveLength(2);
+    for (const svg of svgs) expect(svg).not.toMatch(/<image|href="http/);
+    expect(html).not.toMatch(/<script/i);
+    const plain = await cli(['report', 'week2.csv', '--codebook', 'cb.json', '-o', 'plain.html', '--threads', '1'], dir);
+    expect(plain.code, plain.err).toBe(0);
+    expect(await readFile(join(dir, 'plain.html'), 'utf8')).not.toMatch(/id="season"/);
+  });
+
+  it('with a ledger: the delivery recorded before this one, the trend over the season', async () => {
+    // The ledger of the test above holds weeks 1 to 3; week 3 is in it, so week 2 is its previous.
+    const r = await cli(['report', 'week3.csv', '--codebook', 'cb.json', '-o', 'rep3.html', '--ledger', 'season.duckdb', '--threads', '1'], dir);
+    expect(r.code, r.err).toBe(0);
+    const html = await readFile(join(dir, 'rep3.html'), 'utf8');
+    expect(html).toMatch(/Compared with delivery 2, <code>week2\.csv<\/code>/);
+    expect(html).toMatch(/Deliveries: 1: week1\.csv; 2: week2\.csv; 3: week3\.csv\./);
+    const none = await cli(['report', 'week1.csv', '--codebook', 'cb.json', '-o', 'rep1.html', '--ledger', 'season.duckdb', '--threads', '1'], dir);
+    expect(none.code).toBe(2);
+    expect(none.err).toMatch(/holds no delivery before this one/);
+  });
+});

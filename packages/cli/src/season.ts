@@ -8,6 +8,7 @@ import { join, resolve } from 'node:path';
 import type { CheckResult } from '@codeweir/check';
 import type { CompiledCodebook } from '@codeweir/codebook';
 import type { AppendResult, Comparison, DeliverySnapshot, DriftThresholds, History } from '@codeweir/ledger';
+import type { SeasonInput } from '@codeweir/report';
 import { CodeweirError } from '@codeweir/core';
 import { isPlainText, type InputFormat } from './formats.ts';
 import type { Io } from './io.ts';
@@ -215,4 +216,90 @@ export async function ledgerSetup(args: Record<string, unknown>, cwd: string): P
       return { json, line: ledgerLine(String(args.ledger), step) };
     },
   };
+}
+
+/** The report's season options (`--previous`, `--ledger`, `--ledger-wait`, `--drift-p`, `--drift-psi`), validated before anything is read. */
+export async function reportSeasonOptions(args: Record<string, unknown>, cwd: string): Promise<{ previous?: string; ledger?: string; waitMs?: number; thresholds: DriftThresholds } | undefined> {
+  if (args.previous === undefined && args.ledger === undefined) return undefined;
+  const out: { previous?: string; ledger?: string; waitMs?: number; thresholds: DriftThresholds } = { thresholds: await thresholdsOf(args) };
+  if (args.previous !== undefined) out.previous = String(args.previous);
+  if (args.ledger !== undefined) out.ledger = resolve(cwd, String(args.ledger));
+  const w = ledgerWaitMs(args['ledger-wait']);
+  if (w !== undefined) out.waitMs = w;
+  return out;
+}
+
+type SeasonTrend = NonNullable<SeasonInput['trend']>;
+
+function pointOf(s: DeliverySnapshot, groupItem: string | null, code: string): { missingPercent: number | null; errors: number } {
+  const g = groupItem === null ? undefined : s.groups[groupItem]?.[code];
+  return { missingPercent: g && g.cells > 0 ? (100 * g.missingCells) / g.cells : null, errors: g?.invalidCells ?? 0 };
+}
+
+/**
+ * The report's "since the previous delivery" input: this delivery's snapshot compared with the
+ * `--previous` file (checked here against the same codebook) or, with `--ledger`, with the
+ * delivery recorded before this one (the last one when this file is not in the ledger); the
+ * trend per group across the ledger's deliveries up to this one (or the two deliveries). The
+ * ledger is opened read-only. Throws CodeweirError from the reader and the ledger, and CW_USAGE
+ * when the ledger holds no delivery before this one and no --previous is given.
+ */
+export async function seasonForReport(
+  o: { previous?: string; ledger?: string; waitMs?: number; thresholds: DriftThresholds },
+  cwd: string,
+  result: CheckResult,
+  codebook: CompiledCodebook,
+  current: { path: string; name: string; input: InputFormat; read: ReadArgs; threads: number; groupItem?: string },
+): Promise<SeasonInput> {
+  const { Ledger, compareSnapshots, ledgerHistory } = await import('@codeweir/ledger');
+  const now = await snapshotOfResult(result, codebook, current.path, current.name, current.input, current.read);
+  let before: DeliverySnapshot | undefined;
+  let beforeId: number | undefined;
+  let trend: SeasonTrend | undefined;
+  const groupItem = current.groupItem ?? codebook.groupItems[0]?.name ?? null;
+  if (o.ledger !== undefined) {
+    const ledger = await Ledger.open(o.ledger, { readOnly: true, ...(o.waitMs === undefined ? {} : { waitMs: o.waitMs }) });
+    try {
+      const all = await ledger.deliveries();
+      const self = all.find((d) => d.hash === now.hash);
+      const upTo = self ? all.filter((d) => d.id <= self.id) : all;
+      const prior = upTo.filter((d) => d.id !== self?.id).pop();
+      if (o.previous === undefined && prior !== undefined) {
+        before = await ledger.snapshot(prior.id);
+        beforeId = prior.id;
+      }
+      if (groupItem !== null) {
+        const h = await ledgerHistory(ledger, { groupItem, thresholds: o.thresholds }).catch(() => undefined);
+        const ids = upTo.map((d) => d.id);
+        const groups: SeasonTrend['groups'] = {};
+        const codes = new Set([...Object.keys(h?.groups ?? {}), ...Object.keys(now.groups[groupItem] ?? {})]);
+        for (const code of codes) {
+          const pts = (h?.groups[code] ?? []).filter((p) => ids.includes(p.delivery)).map((p) => ({ missingPercent: p.missingPercent, errors: p.errors }));
+          while (pts.length < ids.length) pts.unshift({ missingPercent: null, errors: 0 });
+          if (!self) pts.push(pointOf(now, groupItem, code));
+          groups[code] = pts;
+        }
+        trend = { deliveries: [...upTo.map((d) => d.file), ...(self ? [] : [current.name])], groups };
+      }
+    } finally {
+      ledger.close();
+    }
+  }
+  if (o.previous !== undefined) {
+    const prevPath = resolve(cwd, o.previous);
+    before = (await checkForSeason(prevPath, o.previous, codebook, { ...current.read }, current.input, current.threads)).snapshot;
+    if (trend === undefined && groupItem !== null) {
+      const codes = new Set([...Object.keys(before.groups[groupItem] ?? {}), ...Object.keys(now.groups[groupItem] ?? {})]);
+      trend = { deliveries: [o.previous, current.name], groups: Object.fromEntries([...codes].map((c) => [c, [pointOf(before!, groupItem, c), pointOf(now, groupItem, c)]])) };
+    }
+  }
+  if (before === undefined) {
+    throw new CodeweirError('CW_USAGE', `the ledger ${o.ledger ?? ''} holds no delivery before this one; check an earlier delivery with --ledger first, or name one with --previous.`);
+  }
+  const c = compareSnapshots(before, now, { thresholds: o.thresholds, ...(beforeId !== undefined ? { previousDelivery: beforeId } : {}), ...(groupItem !== null ? { groupItem } : {}) });
+  const j = c.json;
+  const out: SeasonInput = { previous: j.previous, records: j.records, items: j.items, groupItem: j.groupItem, groups: j.groups, conventions: j.conventions };
+  if (j.recordsNote !== undefined) out.recordsNote = j.recordsNote;
+  if (trend !== undefined) out.trend = trend;
+  return out;
 }

@@ -5,6 +5,7 @@ import { escapeHtml as esc } from './escape.ts';
 import type { ChartDef } from './vega.ts';
 import { MAX_SCATTER_POINTS } from './data.ts';
 import { commonWithheld } from './glossary.ts';
+import type { SeasonInput } from './season.ts';
 
 /** What {@link renderReport} reads. */
 export interface ReportInput {
@@ -15,6 +16,8 @@ export interface ReportInput {
   file?: string;
   /** When the report was made (ISO 8601); the current time when omitted. */
   generatedAt?: string;
+  /** The comparison with the previous delivery and the season's trend (report --previous / --ledger). */
+  season?: SeasonInput;
 }
 
 /** Knobs of the report; the defaults keep a report of a large delivery to a few megabytes. */

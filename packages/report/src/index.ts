@@ -2,6 +2,7 @@ export { renderReport, CONTENT_SECURITY_POLICY } from './report.ts';
 export { renderSplitReport, splitCheck, splitLayout, type SplitReport, type SplitReportOptions, type SplitLayout, type TeamPart } from './split.ts';
 export { UNASSIGNED, teamRows, groupItemOrThrow, type TeamRow } from './teams.ts';
 export type { ReportInput, ReportOptions, PageLinks, TeamScope } from './context.ts';
+export { seasonSection, type SeasonInput, type SeasonItem } from './season.ts';
 export { escapeHtml } from './escape.ts';
 export { formatNumber, formatPercent, formatP } from './format.ts';
 export { PALETTE, CATEGORY_COLOURS, SEQUENTIAL, orderedColours, categoryColours } from './palette.ts';

@@ -7,6 +7,7 @@ import { pairsSection } from './pairs.ts';
 import { teamsSection, teamSectionsSection } from './teams.ts';
 import { glossarySection } from './glossary.ts';
 import { toFixSection } from './to-fix.ts';
+import { seasonSection } from './season.ts';
 import { pageShell } from './page.ts';
 import { renderCharts } from './vega.ts';
 
@@ -28,6 +29,7 @@ interface Section {
 const SECTIONS: readonly Section[] = [
   { id: 'verdict', label: 'Verdict', render: verdictSection },
   { id: 'teams', label: 'Teams', render: teamsSection },
+  { id: 'season', label: 'Since the previous delivery', render: seasonSection },
   { id: 'to-fix', label: 'Rows to fix', render: toFixSection },
   { id: 'findings', label: 'Findings', render: findingsSection },
   { id: 'header', label: 'Header', render: (ctx) => (ctx.options.team ? '' : headerSection(ctx)) },

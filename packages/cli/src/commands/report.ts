@@ -7,6 +7,7 @@ import { FORMAT_OPTION, SHEET_OPTION, checkTypedInput, inputFormatOf, isPlainTex
 import { THREADS_OPTION, threadsOption } from '../threads.ts';
 import { LANG_OPTION, langOption } from '../lang.ts';
 import { createProgress, type Progress } from '../progress.ts';
+import { LEDGER_WAIT_OPTION, DRIFT_P_OPTION, DRIFT_PSI_OPTION, reportSeasonOptions, seasonForReport } from '../season.ts';
 
 /** Counts rows as the one pass reads them, for the progress line. */
 function counted(d: Delivery, progress: Progress): Delivery {
@@ -51,6 +52,11 @@ export const reportCommand: CommandDef = {
       .option('format', FORMAT_OPTION)
       .option('sheet', SHEET_OPTION)
       .option('split-by', { type: 'string', describe: 'a group item: the first screen tables its codes, and one page per code is written beside the report' })
+      .option('previous', { type: 'string', describe: 'the delivery before this one: adds a "since the previous delivery" section and per-team trend charts' })
+      .option('ledger', { type: 'string', describe: 'a ledger (check --ledger): the delivery recorded before this one is the previous, and the trend runs over all of them (read only)' })
+      .option('ledger-wait', LEDGER_WAIT_OPTION)
+      .option('drift-p', DRIFT_P_OPTION)
+      .option('drift-psi', DRIFT_PSI_OPTION)
       .option('quiet', { type: 'boolean', default: false, describe: 'no progress on stderr' }),
   handler: async (args, io) => {
     // Every option is checked before any file is read, so a typo fails at once.
@@ -84,6 +90,7 @@ export const reportCommand: CommandDef = {
     const lang = langOption(args.lang);
     const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)), lang === undefined ? {} : { lang });
     const splitBy = args['split-by'] === undefined ? undefined : groupItemOrThrow(codebook, String(args['split-by']));
+    const seasonOptions = await reportSeasonOptions(args, io.cwd);
     const progress = createProgress(io, { label: 'reading rows', quiet: args.quiet === true });
     try {
       let result: CheckResult;
@@ -102,7 +109,10 @@ export const reportCommand: CommandDef = {
       progress.phase('describing');
       const described = await describeParallel(result, codebook, describeOptions, { threads });
       progress.phase('drawing charts');
-      const reportInput = { check: result, describe: described, codebook, file: data };
+      // With --previous or --ledger: the comparison and the trend (the ledger is loaded only then).
+      if (seasonOptions !== undefined) progress.phase('comparing with the previous delivery');
+      const season = seasonOptions === undefined ? undefined : await seasonForReport(seasonOptions, io.cwd, result, codebook, { path: dataPath, name: data, input, read: { delimiter: checkOptions.delimiter, encoding: checkOptions.encoding }, threads, ...(splitBy ? { groupItem: splitBy } : {}) });
+      const reportInput = { check: result, describe: described, codebook, file: data, ...(season ? { season } : {}) };
       let pages = '';
       if (splitBy === undefined) {
         await writeFileAtomic(outPath, await renderReport(reportInput));
