@@ -13,3 +13,4 @@ export { mapHeader, type HeaderMap } from './header.ts';
 export { parseNumber, parseIsoDate } from './parse.ts';
 export { writeCheckOutputs, folderName, findingsCsv, findingsJsonl, missingnessCsv, missingnessByGroupCsv, neutraliseCell, type WriteCheckOptions } from './outputs.ts';
 export { rules, RULE_ORDER, RULE_NUMBER, type RuleDef } from './rules/index.ts';
+export { missingnessSuppression, suppressedMissingCells, withholdFindings, tallyCells, SUPPRESSED_MARK, WITHHELD_MARK, type DisclosureOptions, type LineStates, type MissingnessSuppression } from './disclosure.ts';

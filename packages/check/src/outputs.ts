@@ -7,6 +7,7 @@ import { join } from 'node:path';
 import { writeFilesAtomic, CodeweirError } from '@codeweir/core';
 import { KINDS } from './classify.ts';
 import type { CheckResult, Finding, GroupItemTally } from './types.ts';
+import { missingnessSuppression, suppressedMissingCells, withholdFindings, type DisclosureOptions, type LineStates, type MissingnessSuppression } from './disclosure.ts';
 
 const BOM = '\ufeff';
 
@@ -62,7 +63,8 @@ function percent(n: number, of: number): string {
   return of === 0 ? '' : String(Math.round((1e4 * n) / of) / 100);
 }
 
-function missingRow(lead: Array<string | number>, item: string, t: GroupItemTally): string {
+function missingRow(lead: Array<string | number>, item: string, t: GroupItemTally, states?: LineStates | null): string {
+  if (states !== undefined) return csvLine([...lead, item, ...suppressedMissingCells(t, states ?? undefined, percent)]);
   const rows = t.valid + t.invalid + missingTotal(t);
   return csvLine([...lead, item, rows, t.valid, t.invalid, ...KINDS.map((k) => t.missing[k] ?? 0), missingTotal(t), percent(missingTotal(t), rows)]);
 }
@@ -74,17 +76,19 @@ const MISSING_HEAD = ['item', 'rows', 'valid', 'invalid', ...KINDS, 'missing', '
  * kind (blank first), all missing, and the percentage of rows missing (0 to 100, two decimals,
  * empty when there are no rows). Items absent from the delivery are left out. Cost: O(items). Throws nothing.
  */
-export function missingnessCsv(result: CheckResult): string {
+export function missingnessCsv(result: CheckResult, suppression?: MissingnessSuppression): string {
   let out = BOM + csvLine(MISSING_HEAD);
-  for (const [name, t] of Object.entries(result.summary.items)) if (!t.absent) out += missingRow([], name, t);
+  for (const [name, t] of Object.entries(result.summary.items)) if (!t.absent) out += missingRow([], name, t, suppression && (suppression.overall.get(name) ?? null));
   return out;
 }
 
 /** Missingness by group as CSV: one line per group item, group code and item, columns as {@link missingnessCsv}. Cost: O(groups x items). Throws nothing. */
-export function missingnessByGroupCsv(result: CheckResult): string {
+export function missingnessByGroupCsv(result: CheckResult, suppression?: MissingnessSuppression): string {
   let out = BOM + csvLine(['group_item', 'group', ...MISSING_HEAD]);
   for (const [g, byKey] of Object.entries(result.summary.groups)) {
-    for (const [key, perItem] of Object.entries(byKey)) for (const [name, t] of Object.entries(perItem)) out += missingRow([g, key], name, t);
+    for (const [key, perItem] of Object.entries(byKey)) {
+      for (const [name, t] of Object.entries(perItem)) out += missingRow([g, key], name, t, suppression && (suppression.byGroup.get(g)?.get(key)?.get(name) ?? null));
+    }
   }
   return out;
 }
@@ -102,6 +106,8 @@ export function folderName(code: string): string {
 export interface WriteCheckOptions {
   /** A group item: also write `by-<item>/<code>/findings.csv` and `missingness.csv` for each of its codes. */
   splitBy?: string;
+  /** Disclosure control of the missingness tables and the per-group files (see disclosure.ts). */
+  disclosure?: DisclosureOptions;
 }
 
 /**
@@ -116,11 +122,13 @@ export interface WriteCheckOptions {
  * CW_USAGE when `splitBy` is not a group item, CW_WRITE_FAILED when a file cannot be written.
  */
 export async function writeCheckOutputs(result: CheckResult, dir: string, opts: WriteCheckOptions = {}): Promise<string[]> {
+  const disclosure = opts.disclosure;
+  const suppression = disclosure && disclosure.minCell > 1 ? missingnessSuppression(result, disclosure.minCell) : undefined;
   const files: Array<[string, string]> = [
     [join(dir, 'findings.csv'), findingsCsv(result.findings)],
     [join(dir, 'findings.jsonl'), findingsJsonl(result.findings)],
-    [join(dir, 'missingness.csv'), missingnessCsv(result)],
-    [join(dir, 'missingness-by-group.csv'), missingnessByGroupCsv(result)],
+    [join(dir, 'missingness.csv'), missingnessCsv(result, suppression)],
+    [join(dir, 'missingness-by-group.csv'), missingnessByGroupCsv(result, suppression)],
     [join(dir, 'summary.json'), JSON.stringify(result.summary, null, 2) + '\n'],
   ];
   if (opts.splitBy !== undefined) {
@@ -136,9 +144,10 @@ export async function writeCheckOutputs(result: CheckResult, dir: string, opts: 
       while (used.has(folder)) folder += '_';
       used.add(folder);
       const base = join(dir, `by-${folderName(g)}`, folder);
-      const mine = result.findings.filter((f) => f.groups?.[g] === key);
+      const theirs = result.findings.filter((f) => f.groups?.[g] === key);
+      const mine = disclosure ? withholdFindings(theirs, disclosure) : theirs;
       let miss = BOM + csvLine(MISSING_HEAD);
-      for (const [name, t] of Object.entries(perItem)) miss += missingRow([], name, t);
+      for (const [name, t] of Object.entries(perItem)) miss += missingRow([], name, t, suppression && (suppression.byGroup.get(g)?.get(key)?.get(name) ?? null));
       files.push([join(base, 'findings.csv'), findingsCsv(mine)], [join(base, 'missingness.csv'), miss]);
     }
   }

@@ -1,13 +1,12 @@
 import { describe, it, expect } from 'vitest';
-import highsLoader from 'highs';
 import { seededRandom } from '@codeweir/core';
+import { eliminated, feasibleBounds, type Equation } from './lp-attacker.ts';
 import { suppressCells, tableTotals, type MarginShown, type Suppression, type SuppressionMargins } from '../src/cell-suppression.ts';
 
-// The attacker: HiGHS (a linear programming solver from outside the project) bounds every
-// suppressed cell by the linear constraints the shown table gives (cells >= 0, every row and
-// column adding up to its total, the totals to the grand total), and a plain elimination fills
-// any row or column with a single unknown, again and again.
-const highs = await (highsLoader as unknown as () => Promise<{ solve(lp: string): { Status: string; ObjectiveValue: number } }>)();
+// The attacker (lp-attacker.ts): HiGHS, a linear programming solver from outside the project,
+// bounds every suppressed cell by the linear constraints the shown table gives (cells >= 0,
+// every row and column adding up to its total, the totals to the grand total), and a plain
+// elimination fills any row or column with a single unknown, again and again.
 
 type Known = Array<Array<number | null>>;
 
@@ -19,59 +18,20 @@ function shownTable(table: number[][], s: Suppression): Known {
   return rows;
 }
 
-/** Rows of the extended table sum to 0 with margins negated: cells - row total = 0; likewise columns. */
-function lines(k: Known): Array<Array<[number, number, number]>> {
+/** Rows and columns of the extended table sum to 0 with margins negated (cells - total = 0), as equations over the unknown cells "i,j". */
+function equations(k: Known): Equation[] {
   const m = k.length - 1;
   const n = k[0]!.length - 1;
-  const out: Array<Array<[number, number, number]>> = [];
-  for (let i = 0; i <= m; i++) out.push(Array.from({ length: n + 1 }, (_, j) => [i, j, (i < m) === (j < n) ? 1 : -1] as [number, number, number]));
-  for (let j = 0; j <= n; j++) out.push(Array.from({ length: m + 1 }, (_, i) => [i, j, (i < m) === (j < n) ? 1 : -1] as [number, number, number]));
-  return out;
-}
-
-/** Repeatedly solves any line with one unknown; returns the cells it recovered. */
-function eliminate(k: Known): Array<[number, number]> {
-  const known = k.map((r) => [...r]);
-  const recovered: Array<[number, number]> = [];
-  for (let changed = true; changed; ) {
-    changed = false;
-    for (const line of lines(known)) {
-      const unknown = line.filter(([i, j]) => known[i]![j] === null);
-      if (unknown.length !== 1) continue;
-      const [ui, uj, us] = unknown[0]!;
-      const rest = line.reduce((s, [i, j, sign]) => (known[i]![j] === null ? s : s + sign * known[i]![j]!), 0);
-      known[ui]![uj] = -rest / us;
-      recovered.push([ui, uj]);
-      changed = true;
-    }
-  }
-  return recovered;
-}
-
-/** Smallest and largest value of each unknown cell under the shown table's constraints (HiGHS). */
-function bounds(k: Known): Map<string, [number, number]> {
-  const name = (i: number, j: number): string => `x${i}_${j}`;
-  const unknown: Array<[number, number]> = [];
-  k.forEach((r, i) => r.forEach((v, j) => v === null && unknown.push([i, j])));
-  const constraints: string[] = [];
-  lines(k).forEach((line, c) => {
-    const terms = line.filter(([i, j]) => k[i]![j] === null);
-    if (terms.length === 0) return;
-    const rest = line.reduce((s, [i, j, sign]) => (k[i]![j] === null ? s : s + sign * k[i]![j]!), 0);
-    constraints.push(` c${c}: ${terms.map(([i, j, sign]) => `${sign > 0 ? '+' : '-'} ${name(i, j)}`).join(' ')} = ${-rest}`);
-  });
-  const out = new Map<string, [number, number]>();
-  for (const [ti, tj] of unknown) {
-    const solve = (sense: string): number => {
-      const lp = `${sense}\n obj: ${name(ti, tj)}\nSubject To\n${constraints.join('\n')}\nBounds\n${unknown.map(([i, j]) => ` ${name(i, j)} >= 0`).join('\n')}\nEnd\n`;
-      const r = highs.solve(lp);
-      expect(r.Status).toBe('Optimal');
-      return r.ObjectiveValue;
-    };
-    // Margins are sums of cells, so they are >= 0 as well; inner and margin cells alike get x >= 0.
-    out.set(`${ti},${tj}`, [solve('Minimize'), solve('Maximize')]);
-  }
-  return out;
+  const lines: Array<Array<[number, number]>> = [];
+  for (let i = 0; i <= m; i++) lines.push(Array.from({ length: n + 1 }, (_, j) => [i, j] as [number, number]));
+  for (let j = 0; j <= n; j++) lines.push(Array.from({ length: m + 1 }, (_, i) => [i, j] as [number, number]));
+  const sign = (i: number, j: number): number => ((i < m) === (j < n) ? 1 : -1);
+  return lines
+    .map((line) => ({
+      terms: line.filter(([i, j]) => k[i]![j] === null).map(([i, j]): [string, number] => [`${i},${j}`, sign(i, j)]),
+      rhs: -line.reduce((s, [i, j]) => (k[i]![j] === null ? s : s + sign(i, j) * k[i]![j]!), 0),
+    }))
+    .filter((e) => e.terms.length > 0);
 }
 
 function randomTable(rand: () => number, m: number, n: number): number[][] {
@@ -101,8 +61,9 @@ function audit(table: number[][], k: number, margins: SuppressionMargins = {}): 
   const n = table[0]!.length;
   const hidden = (i: number, j: number): boolean =>
     (i < m && j === n && margins.rows === 'hidden') || (i === m && j < n && margins.columns === 'hidden') || (i === m && j === n && (margins.grand ?? (margins.rows === 'hidden' && margins.columns === 'hidden' ? 'hidden' : '')) === 'hidden');
-  expect(eliminate(shown).filter(([i, j]) => !hidden(i, j))).toEqual([]);
-  for (const [key, [lo, hi]] of bounds(shown)) {
+  const eqs = equations(shown);
+  expect([...eliminated(eqs)].filter((key) => !hidden(...(key.split(',').map(Number) as [number, number])))).toEqual([]);
+  for (const [key, [lo, hi]] of feasibleBounds(eqs)) {
     const [i, j] = key.split(',').map(Number) as [number, number];
     if (hidden(i, j)) continue;
     const truth = i < table.length && j < table[0]!.length ? table[i]![j]! : i < table.length ? t.rows[i]! : j < table[0]!.length ? t.columns[j]! : t.grand;
