@@ -9,8 +9,10 @@
  * error (`false && error` is false, `true || error` is true, in either order); the compiled
  * condition is wrapped in COALESCE(..., FALSE) because codeweir counts an erroring expression
  * as false. Variables are only read on rows where every item the expression names is valid
- * (otherwise the row is undetermined), so a variable is never NULL there and `x != null` is
- * true, `x == null` false, as in the built-in check. Numbers are doubles: CEL ints are whole
+ * (otherwise the row is undetermined), so a variable is never NULL there: the has-style
+ * missing test of a codebook is that undetermined outcome, counted per rule and routed item
+ * (codeweir's CEL declares no null, so `x == null` does not type-check; should it reach here it
+ * compiles to IS NULL, false on every row that is evaluated). Numbers are doubles: CEL ints are whole
  * doubles, exact up to 2^53, with integer division truncated toward zero.
  */
 import { CodeweirError } from '@codeweir/core';
