@@ -16,7 +16,7 @@
  * --threads N (passed to codeweir), --no-scaling (skip the tenth-of-the-rows runs), --big
  * (10,000,000 rows, one run: the memory target at 10M rows), --source (time the CLI from
  * TypeScript source through tsx instead of the binary), --seed N, --json <file> (every figure as
- * JSON), --only check,duckdb,describe,pairs,report,tokenize,lint.
+ * JSON), --only check,engine,duckdb,describe,pairs,report,tokenize,lint (engine: check --engine duckdb).
  */
 import { existsSync, mkdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { cpus, loadavg } from 'node:os';
@@ -47,7 +47,7 @@ interface Args {
   only?: Set<string>;
 }
 
-const TASK_KEYS = ['check', 'duckdb', 'describe', 'pairs', 'report', 'tokenize', 'lint'];
+const TASK_KEYS = ['check', 'engine', 'duckdb', 'describe', 'pairs', 'report', 'tokenize', 'lint'];
 
 function parseArgs(argv: string[]): Args {
   const a: Args = { rows: 1_000_000, runs: 3, scaling: true, big: false, source: false, seed: 20261201, shapes: ['mixed'] };
@@ -144,6 +144,8 @@ function tasksFor(g: GeneratedDelivery, cli: string[], threads: string[], specFi
   const data = [g.csvPath, '--codebook', g.codebookPath];
   const tasks: Task[] = [
     { key: 'check', label: 'codeweir check', args: [...cli, 'check', ...data, '--out', join(out, 'check'), '--json', ...threads], ok: [0, 1] },
+    // The same check run by the compiled SQL in embedded DuckDB (DuckDB's CSV reader), against the built-in reader above.
+    { key: 'engine', label: 'codeweir check --engine duckdb', args: [...cli, 'check', ...data, '--engine', 'duckdb', '--out', join(out, 'check-duckdb'), '--json'], ok: [0, 1] },
     { key: 'duckdb', label: 'DuckDB SQL peer', args: [join(ROOT, 'bench/duckdb-child.mjs'), specFile], ok: [0] },
     { key: 'describe', label: 'codeweir describe', args: [...cli, 'describe', ...data, '--json', ...threads], ok: [0, 1] },
     { key: 'pairs', label: 'codeweir describe --pairs all', args: [...cli, 'describe', ...data, '--pairs', 'all', '--json', ...threads], ok: [0, 1] },
