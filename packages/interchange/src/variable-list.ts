@@ -286,8 +286,8 @@ export function codebookFromVariableList(list: VariableList, source: string): Im
     d.missing.forEach(see);
   }
   for (const s of sets.values()) s.forEach(see);
-  const languages = declared.length > 0 ? declared : found;
-  const defaultLang = languages[0];
+  // A plain label beside labels per language belongs to the declared default language only.
+  const defaultLang = declared[0];
   const undetermined = (item: string, what: string) => () =>
     guesses.add(item, 'label', 'und', `${what} has a plain label beside labels per language and the codebook declares no languages`, `${what}: the plain label is taken as language "und"`);
 
