@@ -113,7 +113,7 @@ svg.spark { display: block; }
 .nobr { white-space: nowrap; }
 .heatmaps { display: flex; flex-wrap: wrap; gap: 0 36px; align-items: flex-start; }
 .heatmap { min-width: 0; max-width: 100%; }
-.team-cards { display: grid; grid-template-columns: repeat(auto-fill, minmax(340px, 1fr)); gap: 12px; align-items: start; }
+.team-cards { display: grid; grid-template-columns: repeat(auto-fill, minmax(460px, 1fr)); gap: 12px; align-items: start; }
 .team-cards .card h3 { margin-bottom: 4px; }
 dl.glossary { margin: 4px 0 10px; display: grid; grid-template-columns: max-content 1fr; gap: 3px 16px; }
 dl.glossary dt { font-weight: 600; }

@@ -14,9 +14,31 @@ export function isAccepted(ctx: Ctx): boolean {
   return s.accepted ?? (s.findings.bySeverity.error ?? 0) === 0;
 }
 
-/** A rule's severity: as its findings in the log carry it, else the rule's default. */
-export function severityOf(ctx: Ctx, rule: FindingRule): FindingSeverity {
-  return ctx.input.check.findings.find((f) => f.rule === rule)?.severity ?? RULE_DEFS[rule]?.severity ?? 'error';
+/**
+ * How many findings of a rule have a severity. A cross-item rule (`rule-failed`) carries the
+ * severity each codebook rule gives it: counted exactly from the rules' failed counts where
+ * check gave them, else from the findings log; every other rule has one severity, that of its
+ * findings (or the rule's default).
+ */
+export function ruleCount(ctx: Ctx, rule: FindingRule, severity: FindingSeverity): number {
+  const { summary, findings } = ctx.input.check;
+  if (rule === 'rule-failed') {
+    const defs = ctx.input.codebook.rules;
+    if (Object.keys(summary.rules).length > 0) return defs.filter((d) => d.severity === severity).reduce((a, d) => a + (summary.rules[d.id]?.failed ?? 0), 0);
+    return findings.filter((f) => f.rule === rule && f.severity === severity).length;
+  }
+  const own = findings.find((f) => f.rule === rule)?.severity ?? RULE_DEFS[rule]?.severity ?? 'error';
+  return own === severity ? (summary.findings.byRule[rule] ?? 0) : 0;
+}
+
+/** The severities a rule's findings have, most severe first. */
+export function severitiesOf(ctx: Ctx, rule: FindingRule): FindingSeverity[] {
+  return (['error', 'warning', 'info'] as const).filter((s) => ruleCount(ctx, rule, s) > 0);
+}
+
+/** A rule's most severe severity among its findings. */
+function severityOf(ctx: Ctx, rule: FindingRule): FindingSeverity {
+  return severitiesOf(ctx, rule)[0] ?? RULE_DEFS[rule]?.severity ?? 'error';
 }
 
 /** Rules with findings, errors first, then by count. */
@@ -29,13 +51,14 @@ function rulesWithFindings(ctx: Ctx): FindingRule[] {
 
 /**
  * What a rule's findings hit, most first: `[item, count]` from the item tallies, or, for rules
- * whose findings name no item (cross-item rules, ragged rows), from the findings log.
+ * whose findings name no item (cross-item rules, ragged rows), from the findings log (only those
+ * of `severity` when given).
  */
-function itemsOfRule(ctx: Ctx, rule: FindingRule): Array<[string, number]> {
+function itemsOfRule(ctx: Ctx, rule: FindingRule, severity?: FindingSeverity): Array<[string, number]> {
   let counts = Object.entries(ctx.input.check.summary.items).map(([name, t]): [string, number] => [name, t.findings[rule] ?? 0]);
   if (!counts.some(([, n]) => n > 0)) {
     const m = new Map<string, number>();
-    for (const f of ctx.input.check.findings) if (f.rule === rule) m.set(f.item, (m.get(f.item) ?? 0) + 1);
+    for (const f of ctx.input.check.findings) if (f.rule === rule && (severity === undefined || f.severity === severity)) m.set(f.item, (m.get(f.item) ?? 0) + 1);
     counts = [...m];
   }
   return counts.filter(([, n]) => n > 0).sort((a, b) => b[1] - a[1] || a[0].localeCompare(b[0]));
@@ -43,12 +66,13 @@ function itemsOfRule(ctx: Ctx, rule: FindingRule): Array<[string, number]> {
 
 /** "not-a-code 23 (water_src 12, edu 11)" for the largest rules of one severity. */
 function ruleReasons(ctx: Ctx, severity: FindingSeverity, most = 3): string {
-  const byRule = ctx.input.check.summary.findings.byRule;
-  const rules = rulesWithFindings(ctx).filter((r) => severityOf(ctx, r) === severity);
+  const rules = rulesWithFindings(ctx)
+    .filter((r) => ruleCount(ctx, r, severity) > 0)
+    .sort((a, b) => ruleCount(ctx, b, severity) - ruleCount(ctx, a, severity));
   const parts = rules.slice(0, most).map((r) => {
-    const items = itemsOfRule(ctx, r);
+    const items = itemsOfRule(ctx, r, severity);
     const where = items.length === 0 ? '' : ` (${items.slice(0, 2).map(([n, c]) => `${findingTarget(ctx, n)} ${num(c)}`).join(', ')}${items.length > 2 ? ', …' : ''})`;
-    return `<code>${esc(r)}</code> ${num(byRule[r] ?? 0)}${where}`;
+    return `<code>${esc(r)}</code> ${num(ruleCount(ctx, r, severity))}${where}`;
   });
   if (rules.length > most) parts.push(esc(`${rules.length - most} more ${rules.length - most === 1 ? 'rule' : 'rules'}`));
   return parts.join('; ');
@@ -122,6 +146,13 @@ function severityTag(s: FindingSeverity): string {
   return `<span class="sev sev-${s}">${esc(s)}</span>`;
 }
 
+/** A rule's severity tags, with the count of each when its findings have more than one. */
+function severityTags(ctx: Ctx, rule: FindingRule): string {
+  const all = severitiesOf(ctx, rule);
+  if (all.length <= 1) return severityTag(all[0] ?? severityOf(ctx, rule));
+  return all.map((s) => `${severityTag(s)}&nbsp;${num(ruleCount(ctx, rule, s))}`).join(' ');
+}
+
 /**
  * Findings: one table by rule (severity, count, the items it hit), then each rule's first rows
  * in a `details` element the table links to.
@@ -146,7 +177,7 @@ export function findingsSection(ctx: Ctx): string {
     rows: rules.map((r) => {
       const items = itemsOfRule(ctx, r);
       const shown = items.slice(0, 6).map(([n, c]) => `<span class="nobr">${findingTarget(ctx, n)} ${num(c)}</span>`).join(', ');
-      return [`<a href="#rule-${esc(r)}"><code>${esc(r)}</code></a>`, severityTag(severityOf(ctx, r)), num(summary.findings.byRule[r] ?? 0), items.length > 6 ? `${shown}, and ${num(items.length - 6)} more` : shown];
+      return [`<a href="#rule-${esc(r)}"><code>${esc(r)}</code></a>`, severityTags(ctx, r), num(summary.findings.byRule[r] ?? 0), items.length > 6 ? `${shown}, and ${num(items.length - 6)} more` : shown];
     }),
   });
 
@@ -172,7 +203,7 @@ export function findingsSection(ctx: Ctx): string {
         esc(f.message),
         ...(hasSuggestion ? [f.suggestion === undefined ? '' : `<code>${esc(f.suggestion)}</code>`] : []),
       ]);
-      return `<details class="rule" id="rule-${esc(r)}"><summary><code>${esc(r)}</code> ${severityTag(severityOf(ctx, r))} ${esc(plural(total, 'finding'))}</summary><p class="note">${esc(note)}</p>${
+      return `<details class="rule" id="rule-${esc(r)}"><summary><code>${esc(r)}</code> ${severityTags(ctx, r)} ${esc(plural(total, 'finding'))}</summary><p class="note">${esc(note)}</p>${
         shown.length > 0 ? table({ head, rows, numeric: [0], className: 'wide' }) : ''
       }</details>`;
     })

@@ -168,6 +168,8 @@ export function teamRows(ctx: Pick<Ctx, 'input' | 'item'>, group: string): TeamR
   });
 }
 
+const count = (n: number, one: string) => `${num(n)} ${n === 1 ? one : `${one}s`}`;
+
 /** The anchor of a team's section on the main page. */
 export function teamAnchor(group: string, slug: string): string {
   return `team-${group}-${slug}`.replace(/[^A-Za-z0-9_-]+/g, '_');
@@ -192,7 +194,7 @@ function groupTable(ctx: Ctx, group: string, withPages: boolean, linked = true):
   const fileWarnings = ctx.input.check.findings.filter((f) => f.row <= 0 && f.severity === 'warning').length;
   const body = rows.map((r) => {
     const page = pages?.byCode[r.key];
-    const label = r.rows > 0 && linked ? `<a href="#${teamAnchor(group, r.slug)}">${esc(r.name)}</a>` : `${esc(r.name)} <span class="note">no rows</span>`;
+    const label = r.rows === 0 ? `${esc(r.name)} <span class="note">no rows</span>` : linked ? `<a href="#${teamAnchor(group, r.slug)}">${esc(r.name)}</a>` : esc(r.name);
     return [
       label,
       num(r.rows),
@@ -205,7 +207,7 @@ function groupTable(ctx: Ctx, group: string, withPages: boolean, linked = true):
   });
   const extra: string[][] = [];
   if (fileErrors + fileWarnings > 0) {
-    extra.push([esc('no row (header, whole columns)'), '', num(fileErrors), num(fileWarnings), '', '<a href="#header">see Header</a>', ...(pages ? [''] : [])]);
+    extra.push([esc('in no row (header, whole columns)'), '', num(fileErrors), num(fileWarnings), '', '<a href="#findings">see Findings</a>', ...(pages ? [''] : [])]);
   }
   const totalErrors = summary.findings.bySeverity.error ?? 0;
   const totalWarnings = summary.findings.bySeverity.warning ?? 0;
@@ -262,7 +264,8 @@ function teamItems(ctx: Ctx, group: string, row: TeamRow, perItem: Record<string
   return table({
     head: ['item', 'errors', 'warnings', 'missing %', 'all rows'],
     numeric: [1, 2, 3, 4],
-    rows: scored.map((x) => [findingTarget(ctx, x.n), num(x.e), num(x.w), `<span class="${x.mine - x.all >= 5 ? 'worse' : ''}">${pct(x.mine)}</span>`, pct(x.all)]),
+    rows: scored.map((x) => [findingTarget(ctx, x.n), num(x.e), num(x.w), x.mine - x.all >= 5 ? `<span class="worse">${pct(x.mine)}</span>` : pct(x.mine), pct(x.all)]),
+    className: 'wide',
   });
 }
 
@@ -286,7 +289,7 @@ export function teamSectionsSection(ctx: Ctx): string {
       .filter((r) => r.rows > 0)
       .map((r) => {
         const page = pages?.byCode[r.key];
-        const head = `<h3>${esc(r.name)}</h3><p class="note">${esc(`${num(r.rows)} rows; ${num(r.errors)} errors, ${num(r.warnings)} warnings; missing ${pct(r.missingPercent)}`)}${page ? ` &middot; <a href="${esc(page)}">the team’s own page</a>` : ''}</p>`;
+        const head = `<h3>${esc(r.name)}</h3><p class="note">${esc(`${count(r.rows, 'row')}; ${count(r.errors, 'error')}, ${count(r.warnings, 'warning')}; missing ${pct(r.missingPercent)}`)}${page ? ` &middot; <a href="${esc(page)}">the team’s own page</a>` : ''}</p>`;
         return `<article class="card" id="${teamAnchor(group, r.slug)}">${head}${teamItems(ctx, group, r, tallies.get(r.key) ?? {})}</article>`;
       })
       .join('');

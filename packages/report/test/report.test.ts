@@ -108,6 +108,20 @@ describe('sections', () => {
     expect(accepted).toContain('No error findings in 12 rows; 0 warnings to review.');
   });
 
+  it('gives the reason: the rules and items behind the errors, and cross-item rules under their own severity', async () => {
+    const verdict = plain.slice(plain.indexOf('id="verdict"'), plain.indexOf('</section>', plain.indexOf('id="verdict"')));
+    // The fixture's two errors: one not-a-number in age, one unbinned-value in trips.
+    expect(verdict).toContain('Rejected for: <code>not-a-number</code> 1 (<code>age</code> 1); <code>unbinned-value</code> 1 (<code>trips</code> 1).');
+    const input = fixture();
+    // head-age is a warning rule of the codebook: its two failures are warnings to review.
+    input.check.summary.rules['head-age']!.failed = 2;
+    input.check.summary.findings.byRule['rule-failed'] = 2;
+    input.check.summary.findings.bySeverity.warning = 2;
+    for (const row of [2, 5]) input.check.findings.push({ row, id: `H-${row}`, item: 'head-age', value: '', rule: 'rule-failed', severity: 'warning', message: 'x', groups: { team: row < 5 ? '1' : '2' } });
+    const html = await renderReport(input);
+    expect(html).toContain('To review: <code>rule-failed</code> 2 (<span class="nobr">rule <code>head-age</code></span> 2).');
+  });
+
   it('lists header problems and the first rows of each rule with their suggestion', () => {
     expect(plain).toContain('Columns the codebook does not know: <code>interviewer_note</code>');
     expect(plain).toContain('id="rule-not-a-number"');

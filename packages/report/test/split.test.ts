@@ -6,7 +6,7 @@
 import { describe, it, expect, beforeAll } from 'vitest';
 import { renderReport, renderSplitReport, splitCheck, splitLayout, teamRows, type SplitReport } from '../src/index.ts';
 import { createCtx } from '../src/context.ts';
-import { fixture } from './fixtures.ts';
+import { fixture, PAYLOADS } from './fixtures.ts';
 
 let split: SplitReport;
 
@@ -42,6 +42,19 @@ describe('the table of field teams', () => {
   it('refuses a --split-by that is not a group item, naming the group items', async () => {
     await expect(renderReport(fixture(), { groupBy: 'sex' })).rejects.toThrow(/--split-by takes a group item, got "sex"; the codebook's group items are team\./);
     expect(() => splitCheck(fixture(), 'age')).toThrow(expect.objectContaining({ code: 'CW_USAGE' }));
+  });
+});
+
+describe('counts from a capped findings log', () => {
+  it('marks a team’s counts as lower bounds when the log keeps only part of a rule', async () => {
+    const input = fixture();
+    // The log holds 1 not-a-number finding, the summary counts 4: the log was capped.
+    input.check.summary.findings.byRule['not-a-number'] = 4;
+    input.check.summary.findings.bySeverity.error = 5;
+    const html = await renderReport(input);
+    const teams = html.slice(html.indexOf('<section id="teams"'), html.indexOf('</section>', html.indexOf('<section id="teams"')));
+    expect(teams).toContain('<span class="n-error">≥ 1</span>');
+    expect(teams).toContain('≥: the findings log keeps only the first findings of not-a-number; a team’s counts are the logged ones.');
   });
 });
 
@@ -97,5 +110,13 @@ describe('renderSplitReport', () => {
     expect(team3).toContain('id="rule-outlier"');
     expect(team3).not.toContain('id="to-fix"');
     expect(team3).not.toContain('id="pairs"');
+  });
+
+  it('keeps markup in team labels and values as text on every page, and out of file names', async () => {
+    const hostile = await renderSplitReport(fixture({ hostile: true }), { splitBy: 'team', mainFile: 'r.html' });
+    for (const f of hostile.files) {
+      expect(f.path).toMatch(/^[A-Za-z0-9._\/-]+$/);
+      for (const p of PAYLOADS) expect(f.html, f.path).not.toContain(p);
+    }
   });
 });
