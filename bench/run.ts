@@ -212,11 +212,12 @@ interface Target {
   shape: string;
   value: number;
   shown: string;
-  met: boolean;
+  /** null where the figure was measured at a row count the target is not set for. */
+  met: boolean | null;
 }
 
 /** The issue's targets, one entry per shape and command where the figure was measured. */
-function targetsOf(shapes: Record<string, ShapeFigures>, big: boolean): Target[] {
+function targetsOf(shapes: Record<string, ShapeFigures>, big: boolean, rows: number): Target[] {
   const out: Target[] = [];
   const ratioLimits: Array<[string, string, number]> = [
     ['check', 'check / DuckDB', 1.0],
@@ -232,10 +233,12 @@ function targetsOf(shapes: Record<string, ShapeFigures>, big: boolean): Target[]
     });
   }
   const memLimit = big ? 2 * GiB : GiB;
+  // The memory targets are set for 1M rows (10M with --big); at other sizes the figure is shown unjudged.
+  const memJudged = rows === (big ? 10_000_000 : 1_000_000);
   for (const key of ['check', 'describe', 'pairs', 'report']) {
     each((shape, f) => {
       const t = f.tasks[key];
-      if (t && !t.failed) out.push({ target: `peak RSS, ${t.label.replace('codeweir ', '')}`, limit: `<= ${big ? '2 GiB at 10M rows' : '1 GiB at 1M rows'}`, shape, value: t.peakRss, shown: mib(t.peakRss), met: t.peakRss <= memLimit });
+      if (t && !t.failed) out.push({ target: `peak RSS, ${t.label.replace('codeweir ', '')}`, limit: `<= ${big ? '2 GiB at 10M rows' : '1 GiB at 1M rows'}`, shape, value: t.peakRss, shown: mib(t.peakRss), met: memJudged ? t.peakRss <= memLimit : null });
     });
   }
   for (const key of ['check', 'describe', 'pairs', 'report']) {
@@ -258,11 +261,11 @@ function targetsTable(targets: Target[], shapes: string[], rows: number): string
   for (const [target, list] of byTarget) {
     const cells = shapes.map((s) => {
       const t = list.find((x) => x.shape === s);
-      return t ? `${t.shown} ${t.met ? 'met' : 'NOT met'}` : '';
+      return t ? `${t.shown} ${t.met === null ? '(not judged)' : t.met ? 'met' : 'NOT met'}` : '';
     });
     lines.push(`| ${target} | ${list[0]!.limit} | ${cells.join(' | ')} |`);
   }
-  if (rows !== 1_000_000 && rows !== 10_000_000) lines.push(`\nThe memory targets are set for 1M and 10M rows; these figures are for ${count(rows)} rows.`);
+  if (targets.some((t) => t.met === null)) lines.push(`\nThe memory targets are set for 1M rows (10M with --big); these figures are for ${count(rows)} rows, so they are not judged.`);
   return lines.join('\n');
 }
 
@@ -371,7 +374,7 @@ async function main(): Promise<void> {
       );
     }
   }
-  const targets = targetsOf(shapes, args.big);
+  const targets = targetsOf(shapes, args.big, rows);
   if (lint) {
     targets.push({ target: "lint start-up / bare node -e ''", limit: '<= 1.5x', shape: 'all', value: lint.ratio, shown: `${lint.ratio.toFixed(2)}x`, met: lint.ratio <= 1.5 });
   }

@@ -351,8 +351,12 @@ function numericShape(r: Rng): ShapeSpec {
 
 function textShape(r: Rng): ShapeSpec {
   const m = makers(r);
-  const upper = (n: number): string => Array.from({ length: n }, () => String.fromCharCode(65 + m.int(0, 25))).join('');
-  const digits = (n: number): string => Array.from({ length: n }, () => String(m.int(0, 9))).join('');
+  const upper = (n: number): string => {
+    let t = '';
+    for (let i = 0; i < n; i++) t += String.fromCharCode(65 + m.int(0, 25));
+    return t;
+  };
+  const digits = (n: number): string => String(Math.floor(r() * 10 ** n)).padStart(n, '0');
   const coord = (): string => `${m.int(-60, 60)}.${digits(5)},${m.int(-170, 170)}.${digits(5)}`;
   const districts = ['AMB', 'COR', 'DUN', 'FAL', 'GRY', 'HOL'];
   const columns: Column[] = [
@@ -501,9 +505,13 @@ export function generateShape(shape: Shape, opts: GenerateOptions): GeneratedDel
 
   const names = spec.columns.map((c) => String(c.item.name));
   const truth: Record<string, ItemTruth> = Object.fromEntries(names.map((n) => [n, emptyTruth()]));
-  const routes = spec.columns.map((c) => {
+  const routes = spec.columns.map((c, at) => {
     const cond = c.item.askedWhen as string | undefined;
-    return cond ? { vars: variablesOf(cond), test: celToJs(cond) } : undefined;
+    if (!cond) return undefined;
+    const vars = variablesOf(cond);
+    // The row is drawn left to right, so a condition may read only items before its own.
+    for (const x of vars) if (!names.slice(0, at).includes(x)) throw new Error(`bench shapes: ${String(c.item.name)} is routed on ${x}, which is not an earlier item`);
+    return { vars, test: celToJs(cond) };
   });
   const rules = spec.rules.map((x) => ({
     id: x.id,
@@ -519,9 +527,10 @@ export function generateShape(shape: Shape, opts: GenerateOptions): GeneratedDel
   out.line(names.join(','));
   const cells: string[] = new Array(names.length);
   let duplicateIds = 0;
+  // One values object for every row: each column overwrites its own entry before anything later reads it.
+  const v: Values = Object.fromEntries(names.map((n) => [n, undefined]));
   for (let row = 0; row < opts.rows; row++) {
     if (row > 0 && row % 997 === 0) duplicateIds++;
-    const v: Values = {};
     for (let c = 0; c < spec.columns.length; c++) {
       const col = spec.columns[c]!;
       const t = truth[names[c]!]!;
