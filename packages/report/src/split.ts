@@ -93,6 +93,14 @@ function findingTotals(findings: readonly Finding[]): CheckSummary['findings'] {
  * `group` is not a group item or has no retained column.
  */
 export function splitCheck(input: ReportInput, group: string): TeamPart[] {
+  return [...splitLazily(input, group)];
+}
+
+/**
+ * The parts of splitCheck one at a time, each built when it is asked for, so that only one
+ * part's copy of the columns is alive at once when the caller drops each after use.
+ */
+function* splitLazily(input: ReportInput, group: string): Generator<TeamPart> {
   groupItemOrThrow(input.codebook, group);
   const ctx = { input, item: (n: string) => input.codebook.byName.get(n) };
   const keyOf = rowKeys(input, group);
@@ -113,36 +121,37 @@ export function splitCheck(input: ReportInput, group: string): TeamPart[] {
     if (!list) findingsOf.set(k, (list = []));
     list.push(f);
   }
-  return teamRows(ctx, group)
-    .filter((row) => (byKey.get(row.key)?.length ?? 0) > 0)
-    .map((row) => {
-      const rows = Uint32Array.from(byKey.get(row.key)!);
-      const findings = findingsOf.get(row.key) ?? [];
-      const perItem = tallies.get(row.key) ?? {};
-      const items: Record<string, ItemTally> = {};
-      for (const [name, t] of Object.entries(whole.summary.items)) {
-        const g = perItem[name];
-        const own: ItemTally['findings'] = {};
-        for (const f of findings) if (f.item === name) own[f.rule] = (own[f.rule] ?? 0) + 1;
-        items[name] = { valid: g?.valid ?? 0, invalid: g?.invalid ?? 0, missing: { ...(g?.missing ?? {}) }, findings: own, ...(t.absent ? { absent: true } : {}) };
-      }
-      const columns: ColumnStore['columns'] = {};
-      for (const [name, col] of Object.entries(whole.store.columns)) columns[name] = pick(col, rows);
-      const totals = findingTotals(findings);
-      const summary: CheckSummary = {
-        codebook: whole.summary.codebook,
-        ...(whole.summary.file !== undefined ? { file: whole.summary.file } : {}),
-        rows: rows.length,
-        header: whole.summary.header,
-        findings: totals,
-        items,
-        groups: {},
-        rules: {},
-        accepted: (totals.bySeverity.error ?? 0) === 0,
-        ...(whole.summary.quantileType !== undefined ? { quantileType: whole.summary.quantileType } : {}),
-      };
-      return { row: { ...row, rows: rows.length }, rows, check: { summary, findings, store: { rows: rows.length, columns } } };
-    });
+  for (const row of teamRows(ctx, group)) {
+    const list = byKey.get(row.key);
+    if (!list || list.length === 0) continue;
+    const rows = Uint32Array.from(list);
+    byKey.delete(row.key);
+    const findings = findingsOf.get(row.key) ?? [];
+    const perItem = tallies.get(row.key) ?? {};
+    const items: Record<string, ItemTally> = {};
+    for (const [name, t] of Object.entries(whole.summary.items)) {
+      const g = perItem[name];
+      const own: ItemTally['findings'] = {};
+      for (const f of findings) if (f.item === name) own[f.rule] = (own[f.rule] ?? 0) + 1;
+      items[name] = { valid: g?.valid ?? 0, invalid: g?.invalid ?? 0, missing: { ...(g?.missing ?? {}) }, findings: own, ...(t.absent ? { absent: true } : {}) };
+    }
+    const columns: ColumnStore['columns'] = {};
+    for (const [name, col] of Object.entries(whole.store.columns)) columns[name] = pick(col, rows);
+    const totals = findingTotals(findings);
+    const summary: CheckSummary = {
+      codebook: whole.summary.codebook,
+      ...(whole.summary.file !== undefined ? { file: whole.summary.file } : {}),
+      rows: rows.length,
+      header: whole.summary.header,
+      findings: totals,
+      items,
+      groups: {},
+      rules: {},
+      accepted: (totals.bySeverity.error ?? 0) === 0,
+      ...(whole.summary.quantileType !== undefined ? { quantileType: whole.summary.quantileType } : {}),
+    };
+    yield { row: { ...row, rows: rows.length }, rows, check: { summary, findings, store: { rows: rows.length, columns } } };
+  }
 }
 
 /** Options of {@link renderSplitReport}. */
@@ -159,6 +168,7 @@ export interface SplitReportOptions extends ReportOptions {
 export interface SplitReport {
   layout: SplitLayout;
   files: Array<{ path: string; html: string }>;
+  /** The parts the pages were drawn from; their stores are emptied once drawn (the tallies and findings stay). */
   parts: TeamPart[];
 }
 
@@ -167,13 +177,14 @@ export interface SplitReport {
  * pages themselves (each a full report of the code's rows: its findings, missingness beside the
  * whole delivery's, item summaries from `describe` on its rows; no pairs), and an index page.
  * Nothing is written: the caller writes `files` together (atomically). Cost: one describe of
- * each part plus one report per page. Throws CodeweirError CW_USAGE for a `splitBy` that is not
+ * each part plus one report per page; the parts are built one at a time, so beside the
+ * delivery's columns one team's copy of them is held at once. Throws CodeweirError CW_USAGE for a `splitBy` that is not
  * a group item with a retained column.
  */
 export async function renderSplitReport(input: ReportInput, options: SplitReportOptions): Promise<SplitReport> {
   const { splitBy: group, mainFile, describeOptions, ...reportOptions } = options;
-  const parts = splitCheck(input, group);
-  const layout = splitLayout(mainFile, group, parts.map((p) => p.row));
+  groupItemOrThrow(input.codebook, group);
+  const layout = splitLayout(mainFile, group, teamRows({ input, item: (n) => input.codebook.byName.get(n) }, group));
   const fromMain = Object.fromEntries([...layout.pages].map(([k, p]) => [k, p]));
   const main = await renderReport(input, { ...reportOptions, groupBy: group, pages: { index: layout.index, byCode: fromMain } });
   const capped = cappedRules({ input });
@@ -186,7 +197,8 @@ export async function renderSplitReport(input: ReportInput, options: SplitReport
     pairs: [],
   };
   const files: SplitReport['files'] = [{ path: layout.main, html: main }];
-  for (const part of parts) {
+  const parts: TeamPart[] = [];
+  for (const part of splitLazily(input, group)) {
     const team: TeamScope = {
       group,
       code: part.row.key,
@@ -200,6 +212,9 @@ export async function renderSplitReport(input: ReportInput, options: SplitReport
     const described = describe(part.check, input.codebook, dOpts);
     const html = await renderReport({ ...input, check: part.check, describe: described }, { ...reportOptions, team, groupBy: group });
     files.push({ path: layout.pages.get(part.row.key)!, html });
+    // The page is drawn: its copy of the columns goes, so one team's copy is alive at a time.
+    part.check.store.columns = {};
+    parts.push(part);
   }
   files.push({ path: layout.index, html: indexPage(input, group, parts, layout) });
   return { layout, files, parts };
