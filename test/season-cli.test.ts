@@ -204,6 +204,23 @@ describe('check --ledger, history, --split-by', () => {
     expect(human.out).toMatch(/3 deliveries \(ledger schema 2\)/);
   });
 
+  it('check --previous: the same comparison without a ledger, and each team folder gets its changes', async () => {
+    const r = await cli(['check', 'week2.csv', '--codebook', 'cb.json', '--previous', 'week1.csv', '--out', 'prev', '--split-by', 'team', '--json', '--threads', '1'], dir);
+    expect(r.code, r.err).toBe(0);
+    const j = JSON.parse(r.out);
+    const c = JSON.parse((await cli(['compare', 'week1.csv', 'week2.csv', '--codebook', 'cb.json', '--group', 'team', '--json', '--threads', '1'], dir)).out);
+    expect(j.previous.records).toEqual(c.records);
+    expect(j.previous.driftFlagged).toEqual(['income']);
+    for (const team of ['1', '2']) {
+      const t = JSON.parse(await readFile(join(dir, 'prev', 'by-team', team, 'changes.json'), 'utf8'));
+      expect(t.records).toEqual(c.groups[team].records);
+      expect(t.trend).toHaveLength(2);
+    }
+    const both = await cli(['check', 'week2.csv', '--codebook', 'cb.json', '--previous', 'week1.csv', '--ledger', 'x.duckdb'], dir);
+    expect(both.code).toBe(2);
+    expect(both.err).toMatch(/not both/);
+  });
+
   it('history of a file that is not there, or not a ledger: exit 2, one sentence', async () => {
     const r = await cli(['history', '--ledger', 'missing.duckdb'], dir);
     expect(r.code).toBe(2);

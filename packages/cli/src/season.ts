@@ -127,11 +127,16 @@ export function ledgerLine(ledgerPath: string, r: LedgerStep): string {
   const head = `Ledger ${ledgerPath}: recorded as delivery ${a.delivery} of ${r.deliveries}`;
   const c = r.comparison;
   if (c === null) return `${head} (the first).\n`;
+  return changesLine(`${head}; since delivery ${a.previous!.id} (${a.previous!.file})`, c);
+}
+
+/** `<head>: N records added, N removed, N changed; new codes in ...; drift flagged in ....` */
+function changesLine(head: string, c: Comparison): string {
   const rec = c.json.records;
   const changes = rec ? `${rec.added} records added, ${rec.removed} removed, ${rec.changed} changed` : 'records not compared (no ids)';
   const drift = Object.entries(c.json.items).filter(([, it]) => it.drift?.flagged).map(([n]) => n);
   const codes = Object.entries(c.json.items).filter(([, it]) => it.newCodes.length > 0).map(([n]) => n);
-  return `${head}; since delivery ${a.previous!.id} (${a.previous!.file}): ${changes}${codes.length ? `; new codes in ${codes.join(', ')}` : ''}${drift.length ? `; drift flagged in ${drift.join(', ')}` : ''}.\n`;
+  return `${head}: ${changes}${codes.length ? `; new codes in ${codes.join(', ')}` : ''}${drift.length ? `; drift flagged in ${drift.join(', ')}` : ''}.\n`;
 }
 
 /**
@@ -178,44 +183,69 @@ export interface LedgerContext {
 }
 
 /**
- * `check --ledger`: validates the ledger options before the check starts, and returns the step
- * that runs after it: snapshot the checked file, append it to the ledger in one transaction,
- * compare it with the delivery recorded before, and with `--split-by` write each group's
- * `changes.json` and `changes.csv` beside its split files. Returns the JSON part (`ledger` in
- * check's --json) and the terminal line. Throws CodeweirError CW_USAGE for bad options (and
- * with --engine other than builtin: the ledger records delivery files as the built-in reader reads them).
+ * `check --ledger` / `check --previous`: validates the options before the check starts, and
+ * returns the step that runs after it: snapshot the checked file; with a ledger append it in one
+ * transaction and compare it with the delivery recorded before; with --previous check that file
+ * against the same codebook and compare with it; with `--split-by` write each group's
+ * `changes.json` and `changes.csv` beside its split files. Returns the JSON part (`ledger`, or
+ * `previous`, in check's --json) and the terminal line. Throws CodeweirError CW_USAGE for bad
+ * options (both --ledger and --previous; --engine other than builtin: the ledger records delivery
+ * files as the built-in reader reads them).
  */
 export async function ledgerSetup(args: Record<string, unknown>, cwd: string): Promise<{
-  record(result: CheckResult, codebook: CompiledCodebook, ctx: LedgerContext): Promise<{ json: Record<string, unknown>; line: string }>;
+  record(result: CheckResult, codebook: CompiledCodebook, ctx: LedgerContext): Promise<{ key: 'ledger' | 'previous'; json: Record<string, unknown>; line: string }>;
 }> {
-  const ledgerPath = resolve(cwd, String(args.ledger));
+  if (args.ledger !== undefined && args.previous !== undefined) throw new CodeweirError('CW_USAGE', 'give --ledger (compare with the delivery recorded before) or --previous <file>, not both.');
+  const ledgerPath = args.ledger === undefined ? undefined : resolve(cwd, String(args.ledger));
   const waitMs = ledgerWaitMs(args['ledger-wait']);
   const thresholds = await thresholdsOf(args);
-  if ((args.engine ?? 'builtin') !== 'builtin') throw new CodeweirError('CW_USAGE', '--ledger records delivery files as the built-in engine reads them; leave out --engine to use it.');
+  if ((args.engine ?? 'builtin') !== 'builtin') throw new CodeweirError('CW_USAGE', `--${ledgerPath ? 'ledger' : 'previous'} compares delivery files as the built-in engine reads them; leave out --engine to use it.`);
   return {
     async record(result, codebook, ctx) {
-      if (resolve(ctx.dataPath) === ledgerPath) throw new CodeweirError('CW_USAGE', `--ledger names the delivery itself (${ctx.data}); choose another file for the ledger.`);
+      if (ledgerPath !== undefined && resolve(ctx.dataPath) === ledgerPath) throw new CodeweirError('CW_USAGE', `--ledger names the delivery itself (${ctx.data}); choose another file for the ledger.`);
       const snapshot = await snapshotOfResult(result, codebook, ctx.dataPath, ctx.data, ctx.input, ctx.options);
-      const step = await recordInLedger(ledgerPath, snapshot, waitMs, thresholds, ctx.splitBy);
+      let step: LedgerStep;
+      if (ledgerPath !== undefined) step = await recordInLedger(ledgerPath, snapshot, waitMs, thresholds, ctx.splitBy);
+      else step = await compareWithPrevious(String(args.previous), cwd, snapshot, codebook, ctx, thresholds);
       if (ctx.splitBy !== undefined && ctx.out !== undefined) {
         const [{ folderName }, { writeFilesAtomic }] = await Promise.all([import('@codeweir/check'), import('@codeweir/core')]);
         const codes = Object.keys(result.summary.groups[ctx.splitBy] ?? {});
         await writeFilesAtomic(await groupChangeFiles(resolve(cwd, String(ctx.out)), ctx.splitBy, codes, step, folderName));
       }
       const c = step.comparison;
+      const changes = {
+        records: c?.json.records ?? null,
+        newCodes: Object.fromEntries(Object.entries(c?.json.items ?? {}).filter(([, it]) => it.newCodes.length).map(([n, it]) => [n, it.newCodes])),
+        driftFlagged: Object.entries(c?.json.items ?? {}).filter(([, it]) => it.drift?.flagged).map(([n]) => n),
+      };
+      if (ledgerPath === undefined) return { key: 'previous', json: { file: String(args.previous), ...changes }, line: changesLine(`Since ${String(args.previous)}`, c!) };
       const json: Record<string, unknown> = {
         file: String(args.ledger),
         delivery: step.append.delivery,
         duplicate: step.append.duplicate,
         deliveries: step.deliveries,
         previous: step.append.previous?.id ?? null,
-        records: c?.json.records ?? null,
-        newCodes: Object.fromEntries(Object.entries(c?.json.items ?? {}).filter(([, it]) => it.newCodes.length).map(([n, it]) => [n, it.newCodes])),
-        driftFlagged: Object.entries(c?.json.items ?? {}).filter(([, it]) => it.drift?.flagged).map(([n]) => n),
+        ...changes,
       };
-      return { json, line: ledgerLine(String(args.ledger), step) };
+      return { key: 'ledger', json, line: ledgerLine(String(args.ledger), step) };
     },
   };
+}
+
+/** `check --previous`: the previous file checked with the same options, compared, with a two-point trend per group. */
+async function compareWithPrevious(previous: string, cwd: string, now: DeliverySnapshot, codebook: CompiledCodebook, ctx: LedgerContext, thresholds: DriftThresholds): Promise<LedgerStep> {
+  const { compareSnapshots } = await import('@codeweir/ledger');
+  const path = resolve(cwd, previous);
+  if (path === resolve(ctx.dataPath)) throw new CodeweirError('CW_USAGE', `--previous names the delivery itself (${ctx.data}); name the delivery before it.`);
+  const before = (await checkForSeason(path, previous, codebook, { ...ctx.options }, ctx.input, 1)).snapshot;
+  const comparison = compareSnapshots(before, now, { thresholds, ...(ctx.splitBy ? { groupItem: ctx.splitBy } : {}) });
+  let trend: LedgerStep['trend'] = null;
+  if (ctx.splitBy !== undefined) {
+    const g = ctx.splitBy;
+    const codes = new Set([...Object.keys(before.groups[g] ?? {}), ...Object.keys(now.groups[g] ?? {})]);
+    trend = Object.fromEntries([...codes].map((code) => [code, [before, now].map((s, i) => ({ delivery: i + 1, rows: s.groups[g]?.[code]?.rows ?? 0, findings: {}, ...pointOf(s, g, code) }))]));
+  }
+  return { append: { delivery: 0, duplicate: false }, comparison, deliveries: 2, trend };
 }
 
 /** The report's season options (`--previous`, `--ledger`, `--ledger-wait`, `--drift-p`, `--drift-psi`), validated before anything is read. */
