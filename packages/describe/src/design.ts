@@ -139,7 +139,7 @@ function estimate(design: SampleDesign, src: Source, domain?: Domain): (DesignFi
 /**
  * Adds the design-based figures to a description (see the file comment): `weighted.{se,
  * percentSe, deff, nEffective, ci, df}` on every item with a mean or frequencies, `domains` with
- * `by`, and the `design` summary. The weight and fpc items themselves get no estimates.
+ * `by`, and the `design` summary. The design's own items (weight, strata, cluster, fpc) get no estimates.
  * Without a weight every row weighs 1. Cost: O(rows + clusters x codes) per item, times the
  * number of domains with `by`. Throws CodeweirError CW_USAGE when a design option names an
  * unknown item or one whose values are not kept per record, and for bad fpc values.
@@ -170,7 +170,7 @@ export function addDesignEstimates(out: DescribeResult, result: CheckResult, cod
     ...(fpc ? { fpc } : {}),
   });
 
-  const skip = new Set([weight?.item, names.fpc]);
+  const skip = new Set([weight?.item, names.fpc, names.strata, names.cluster]);
   for (const item of codebook.items) {
     const d = out.items[item.name];
     if (!d || skip.has(item.name)) continue;

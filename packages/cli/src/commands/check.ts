@@ -6,6 +6,7 @@ import type { CommandDef, Io } from '../io.ts';
 import { THREADS_OPTION, threadsOption } from '../threads.ts';
 import { FORMAT_OPTION, SHEET_OPTION, checkTypedInput, inputFormatOf, isPlainText } from '../formats.ts';
 import { LEDGER_WAIT_OPTION, DRIFT_P_OPTION, DRIFT_PSI_OPTION, ledgerSetup } from '../season.ts';
+import { MIN_CELL_OPTION, SHOW_VALUES_OPTION, disclosureChoice, withDesignOptions } from '../disclosure.ts';
 
 function plural(n: number, word: string): string {
   return `${n} ${word}${n === 1 ? '' : 's'}`;
@@ -109,14 +110,18 @@ export const checkCommand: CommandDef = {
       .option('row-column', { type: 'string', describe: 'with --engine postgres: the table column that numbers the rows (default: the order the server returns them in)' })
       .option('ledger', { type: 'string', describe: 'a ledger file (DuckDB; created when absent): record this delivery in it and compare it with the one recorded before' })
       .option('ledger-wait', LEDGER_WAIT_OPTION)
-      .option('previous', { type: 'string', describe: 'the delivery before this one: compare with it (without a ledger); with --split-by each team folder gets its changes' })
       .option('drift-p', DRIFT_P_OPTION)
       .option('drift-psi', DRIFT_PSI_OPTION)
+      .option('min-cell', MIN_CELL_OPTION)
+      .option('show-values', SHOW_VALUES_OPTION)
+      .option('weight', { type: 'string', describe: "with --strata or --cluster: the design's weight item" })
+      .option('strata', { type: 'string', describe: "strata item of the sample design, for the design findings (default: the codebook's design)" })
+      .option('cluster', { type: 'string', describe: 'cluster item of the sample design, for the design findings' })
       .option('quiet', { type: 'boolean', default: false, describe: 'no progress on stderr' }),
   handler: async (args, io) => {
     const data = String(args.data);
-    // The ledger (and DuckDB) is loaded only with --ledger or --previous: without them the check runs exactly as before.
-    const season = args.ledger === undefined && args.previous === undefined ? undefined : await ledgerSetup(args, io.cwd);
+    // The ledger (and DuckDB) is loaded only with --ledger: without it the check runs exactly as before.
+    const season = args.ledger === undefined ? undefined : await ledgerSetup(args, io.cwd);
     const threads = threadsOption(args.threads);
     // Loaded here, not at the top, so that starting the CLI costs only the command it runs.
     const [{ loadCodebookOrThrow }, { openDelivery }, { checkDelivery, checkFile, normalizeCheckOptions, writeCheckOutputs }] = await Promise.all([
@@ -137,7 +142,8 @@ export const checkCommand: CommandDef = {
     });
     const splitBy = args['split-by'] === undefined ? undefined : String(args['split-by']);
     if (splitBy !== undefined && args.out === undefined) throw new CodeweirError('CW_USAGE', '--split-by writes files, so it needs --out <dir>.');
-    const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)), { strict: args.strict === true });
+    const codebook = withDesignOptions(await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)), { strict: args.strict === true }), args);
+    const disclosure = disclosureChoice(args, codebook);
     if (splitBy !== undefined && !codebook.groupItems.some((g) => g.name === splitBy)) {
       const groups = codebook.groupItems.map((g) => g.name);
       throw new CodeweirError('CW_USAGE', `--split-by takes a group item of the codebook${groups.length ? ` (${groups.join(', ')})` : ', which has none'}, got ${splitBy}.`);
@@ -172,9 +178,9 @@ export const checkCommand: CommandDef = {
     const exit = errors > 0 || (failOnWarning && warnings > 0) ? 1 : 0;
     // The verdict in the summary follows the same threshold as the exit code.
     result.summary.accepted = exit === 0;
-    if (args.out !== undefined) await writeCheckOutputs(result, resolve(io.cwd, String(args.out)), { splitBy });
+    if (args.out !== undefined) await writeCheckOutputs(result, resolve(io.cwd, String(args.out)), { splitBy, disclosure });
     const recorded = season === undefined ? undefined : await season.record(result, codebook, { io, data, dataPath, engine, input, options, splitBy, out: args.out });
-    if (args.json === true) io.stdout(JSON.stringify(recorded === undefined ? result.summary : { ...result.summary, [recorded.key]: recorded.json }, null, 2) + '\n');
+    if (args.json === true) io.stdout(JSON.stringify(recorded === undefined ? result.summary : { ...result.summary, ledger: recorded.json }, null, 2) + '\n');
     else {
       io.stdout(humanReport(result, data, failOnWarning));
       if (args.out !== undefined) io.stdout(`Findings log, missingness and summary written to ${String(args.out)}.\n`);

@@ -61,6 +61,30 @@ function itemLines(name: string, d: ItemDescription, date: boolean): string[] {
     const at = date ? isoDay : num;
     const figures = w.mean !== undefined ? `, mean ${at(w.mean)}, sd ${num(w.sd)}, median ${at(w.median)}` : w.medianCode ? `, median ${w.medianCode.code}` : '';
     lines.push(`  weighted: sum of weights ${num(w.sumOfWeights)}, n ${w.n}, excluded ${w.excluded}${figures}`);
+    lines.push(...designLines(d));
+  }
+  return lines;
+}
+
+/** Design-based figures: the mean's se, deff and interval, or each code's percent with them; then the domains. */
+function designLines(d: ItemDescription): string[] {
+  const w = d.weighted!;
+  if (w.df === undefined) return [];
+  const ci = (c: unknown): string => {
+    const i = c as { low?: number; high?: number } | null | undefined;
+    return i && typeof i.low === 'number' ? `${num(i.low)} to ${num(i.high)}` : '-';
+  };
+  const lines: string[] = [];
+  const figures = (f: NonNullable<ItemDescription['domains']>[string] | typeof w): string[] => {
+    if (f.mean !== undefined && typeof f.deff !== 'object') return [`mean ${num(f.mean)}, se ${num(f.se)}, deff ${num(f.deff)}, n effective ${num(f.nEffective as number)}, 95% CI ${ci(f.ci)}`];
+    const deff = (f.deff ?? {}) as Record<string, number | null>;
+    const cis = (f.ci ?? {}) as Record<string, unknown>;
+    return Object.entries(f.percent ?? {}).map(([code, p]) => `${code}: ${num(p)}%, se ${num(f.percentSe?.[code])}, deff ${num(deff[code])}, 95% CI ${ci(cis[code])}`);
+  };
+  lines.push(...figures(w).map((l) => `  design: ${l}`));
+  for (const [code, dom] of Object.entries(d.domains ?? {})) {
+    if (dom.n === 0) lines.push(`  domain ${code} (${dom.label}): no cases`);
+    else lines.push(...figures(dom).map((l) => `  domain ${code} (${dom.label}), n ${dom.n}: ${l}`));
   }
   return lines;
 }
@@ -83,6 +107,10 @@ function pairLine(p: PairDescription): string {
  */
 export function describeText(r: DescribeResult, dateItems: ReadonlySet<string> = new Set()): string {
   const out: string[] = [`${r.rows} rows; quantiles Hyndman-Fan type ${r.quantileType}${r.weight ? `; weighted by ${r.weight}` : ''}`, ''];
+  if (r.design) {
+    const g = r.design;
+    out.splice(1, 0, `design: strata ${g.strata ?? '-'} (${g.strataCount}), clusters ${g.cluster ?? 'records'} (${g.clusters}), fpc ${g.fpc ?? '-'}, ${g.df} degrees of freedom, ${g.excludedRows} records left out${g.singleCluster.note ? `; ${g.singleCluster.note}` : ''}`);
+  }
   for (const [name, d] of Object.entries(r.items)) out.push(...itemLines(name, d, dateItems.has(name)), '');
   if (r.pairs.length > 0) {
     out.push('Pairs:');
@@ -112,6 +140,10 @@ export const describeCommand: CommandDef = {
       .option('pairs', { type: 'string', describe: "'all' to summarise every pair of described items" })
       .option('listwise', { type: 'boolean', describe: 'pairs use only rows valid on every item of every requested pair' })
       .option('weight', { type: 'string', describe: "weight item (default: the codebook's weight item)" })
+      .option('strata', { type: 'string', describe: "strata item of the sample design (default: the codebook's design)" })
+      .option('cluster', { type: 'string', describe: "cluster (primary sampling unit) item of the sample design" })
+      .option('fpc', { type: 'string', describe: 'finite population correction item: population count of clusters per stratum, or sampling fraction' })
+      .option('by', { type: 'string', describe: 'a group item: design-based estimates in each of its codes (domains)' })
       .option('quantiles', { type: 'string', describe: 'Hyndman-Fan quantile type, 1 to 9 (default 7)' })
       .option('percentiles', { type: 'string', describe: 'extra percentiles, e.g. 10,90' })
       .option('delimiter', { type: 'string', describe: 'field delimiter (detected when absent)' })
@@ -140,6 +172,7 @@ export const describeCommand: CommandDef = {
       pairs: pairsFlag === 'all' ? 'all' : ((args.pair as string[] | undefined) ?? []),
       listwise: args.listwise,
       percentiles: args.percentiles,
+      ...designArgs(args),
     });
     const lang = langOption(args.lang);
     const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)), lang === undefined ? {} : { lang });
@@ -160,6 +193,13 @@ export const describeCommand: CommandDef = {
     return 0;
   },
 };
+
+/** The design options given (only those, so a run without them normalises as before). */
+export function designArgs(args: Record<string, unknown>): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const k of ['strata', 'cluster', 'fpc', 'by']) if (args[k] !== undefined) out[k] = args[k];
+  return out;
+}
 
 function dateItems(codebook: CompiledCodebook): Set<string> {
   return new Set(codebook.items.filter((i) => i.type === 'date').map((i) => i.name));

@@ -1,0 +1,96 @@
+import { describe as suite, it, expect, beforeAll, afterAll } from 'vitest';
+import { mkdtemp, readFile, readdir, rm, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { cli } from './support/cli.ts';
+import { referenceFile, surveyReference } from './reference/survey-design.ts';
+import type { DescribeResult } from '../packages/describe/src/index.ts';
+
+let dir = '';
+beforeAll(async () => {
+  dir = await mkdtemp(join(tmpdir(), 'codeweir-design-'));
+});
+afterAll(() => rm(dir, { recursive: true, force: true }));
+
+suite('describe with design options (CLI)', () => {
+  // Oracle: R survey's apiclus1 with svydesign(id = ~dnum, weights = ~pw, fpc = ~fpc) and svyby
+  // over stype (test/reference/survey-design.R).
+  it('--by gives domain estimates as R svyby does; the JSON follows the contract', async () => {
+    const r = await cli(['describe', referenceFile('survey-apiclus1.csv'), '--codebook', referenceFile('survey-apiclus1.codebook.json'), '--by', 'stype', '--json'], dir);
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.out) as DescribeResult;
+    const ref = surveyReference.cases.find((c) => c.name.startsWith('apiclus1, one-stage clusters and population size'))!;
+    const e = ref.estimates.find((x) => x.item === 'api00' && x.domain === 'H')!;
+    const dom = out.items.api00!.domains!.H!;
+    expect(Math.abs(dom.mean! - e.estimate)).toBeLessThan(1e-9 * e.estimate);
+    expect(Math.abs((dom.se as number) - e.se)).toBeLessThan(1e-9 * e.se);
+    expect(Object.keys(out.items.awards!.weighted!.percentSe!)).toEqual(['Yes', 'No']);
+    expect(out.design).toMatchObject({ cluster: 'dnum', fpc: 'fpc', fpcAs: 'population count', clusters: 15 });
+  });
+
+  it('the text summary names the design and prints se, deff and the interval', async () => {
+    const r = await cli(['describe', referenceFile('survey-nhanes-lonely.csv'), '--codebook', referenceFile('survey-nhanes.codebook.json')], dir);
+    expect(r.out).toMatch(/design: strata stratum \(15\), clusters psu \(30\)/);
+    expect(r.out).toMatch(/Stratum 75 has a single cluster/);
+    expect(r.out).toMatch(/design: 1: [\d.]+%, se [\d.]+, deff [\d.]+, 95% CI/);
+  });
+
+  it('a design option naming an unknown item fails in one sentence with exit code 2', async () => {
+    const r = await cli(['describe', referenceFile('survey-apistrat.csv'), '--codebook', referenceFile('survey-apistrat.codebook.json'), '--strata', 'school'], dir);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/--strata names "school", which is not an item of the codebook/);
+  });
+});
+
+suite('check --min-cell and --show-values (CLI)', () => {
+  async function delivery(): Promise<[string, string]> {
+    const codebook = {
+      codebook: 'disclosure-cli',
+      version: '1',
+      title: 'Invented household listing',
+      items: [
+        { name: 'hh', label: 'Household', role: 'id', type: 'text' },
+        { name: 'team', label: 'Team', role: 'group', type: 'integer', level: 'nominal', codes: [{ code: 1, label: 'North' }, { code: 2, label: 'South' }] },
+        { name: 'phone', label: 'Phone number', type: 'text', confidential: true, pattern: '[0-9]{7}' },
+        { name: 'rooms', label: 'Rooms', type: 'integer', level: 'ratio', missing: [{ code: -9, kind: 'refused' }] },
+      ],
+    };
+    const rows = ['hh,team,phone,rooms'];
+    for (let i = 0; i < 60; i++) rows.push(`H${i},${1 + (i % 2)},${i % 13 === 0 ? 'ask' : '5550' + String(100 + i)},${i % 17 === 0 ? '-9' : i % 19 === 0 ? '' : 1 + (i % 4)}`);
+    const cb = join(dir, 'disclosure.codebook.json');
+    const data = join(dir, 'disclosure.csv');
+    await writeFile(cb, JSON.stringify(codebook));
+    await writeFile(data, rows.join('\n') + '\n');
+    return [cb, data];
+  }
+
+  it('suppresses small counts in the missingness tables and team folders, withholds ids and confidential values', async () => {
+    const [cb, data] = await delivery();
+    const out = join(dir, 'out-k');
+    const r = await cli(['check', data, '--codebook', cb, '--out', out, '--split-by', 'team', '--min-cell', '5'], dir);
+    expect(r.code).toBe(1);
+    const miss = await readFile(join(out, 'missingness.csv'), 'utf8');
+    expect(miss).toContain('[s]');
+    for (const team of await readdir(join(out, 'by-team'))) {
+      const findings = await readFile(join(out, 'by-team', team, 'findings.csv'), 'utf8');
+      expect(findings).not.toMatch(/\bH\d+\b|\bask\b/);
+    }
+    const shown = join(dir, 'out-show');
+    await cli(['check', data, '--codebook', cb, '--out', shown, '--split-by', 'team', '--show-values'], dir);
+    expect(await readFile(join(shown, 'by-team', '1', 'findings.csv'), 'utf8')).toMatch(/\bask\b/);
+    // Without --min-cell the confidential item's values are withheld all the same, ids are not.
+    const plain = join(dir, 'out-plain');
+    await cli(['check', data, '--codebook', cb, '--out', plain, '--split-by', 'team'], dir);
+    const f = await readFile(join(plain, 'by-team', '1', 'findings.csv'), 'utf8');
+    expect(f).not.toMatch(/\bask\b/);
+    expect(f).toMatch(/\bH\d+\b/);
+    expect(await readFile(join(plain, 'missingness.csv'), 'utf8')).not.toContain('[s]');
+  });
+
+  it('--min-cell takes a whole number', async () => {
+    const [cb, data] = await delivery();
+    const r = await cli(['check', data, '--codebook', cb, '--out', join(dir, 'bad'), '--min-cell', 'few'], dir);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/--min-cell takes a whole number of at least 1, got "few"/);
+  });
+});
