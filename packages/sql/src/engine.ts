@@ -236,9 +236,21 @@ export async function checkWithDuckDb(path: string, codebook: CompiledCodebook, 
       const names = Array.from({ length: 2 * width }, (_, k) => `f${k}`);
       const columns = names.map((c) => `${lit(c)}: 'VARCHAR'`).join(', ');
       const maxLine = Math.max(opts.maxFieldBytes ?? 16 * 1024 * 1024, 2 * 1024 * 1024) * 2;
-      await query(
-        `CREATE TABLE cw_delivery AS SELECT * FROM read_csv(${lit(path)}, columns = {${columns}}, header = false, skip = ${(d.firstDataLine ?? 2) - 1}, delim = ${lit(d.delimiter)}, quote = '"', escape = '"', nullstr = '\u0001\u0002', null_padding = true, strict_mode = false, auto_detect = false, encoding = ${lit(encoding)}, max_line_size = ${maxLine}${f === 'csv.gz' ? ", compression = 'gzip'" : ''})`,
-      );
+      const load = (parallel: boolean) =>
+        con.run(
+          `CREATE OR REPLACE TABLE cw_delivery AS SELECT * FROM read_csv(${lit(path)}, columns = {${columns}}, header = false, skip = ${(d.firstDataLine ?? 2) - 1}, delim = ${lit(d.delimiter)}, quote = '"', escape = '"', nullstr = '\u0001\u0002', null_padding = true, strict_mode = false, auto_detect = false, encoding = ${lit(encoding)}, max_line_size = ${maxLine}, parallel = ${parallel}${f === 'csv.gz' ? ", compression = 'gzip'" : ''})`,
+        );
+      const unreadable = (e: unknown) => new CodeweirError('CW_FILE_UNREADABLE', `DuckDB could not read ${path}: ${(e as Error).message.split('\n')[0]}`, { file: path, cause: e });
+      try {
+        await load(true);
+      } catch (e) {
+        // DuckDB's parallel CSV scanner cannot pad short rows of a file with line breaks inside
+        // quoted fields; its one-thread scanner can.
+        if (!/parallel\s*=\s*false/.test((e as Error).message)) throw unreadable(e);
+        await load(false).catch((e2: unknown) => {
+          throw unreadable(e2);
+        });
+      }
       source = {
         from: 'cw_delivery',
         row: 'rowid + 1',
