@@ -214,6 +214,21 @@ describe('the demo report in headless Chromium at 1200 px', () => {
     await pages[1]!.close();
   });
 
+  it('keeps a narrow window free of page-wide scrolling: wide tables scroll inside their box', async () => {
+    for (const file of [split.layout.main, split.files[1]!.path]) {
+      const { page } = await openFile(file);
+      await page.setViewportSize({ width: 560, height: 900 });
+      await page.evaluate(() => document.querySelectorAll('details').forEach((d) => (d.open = true)));
+      const { pageWidth, scrolling } = await page.evaluate(() => ({
+        pageWidth: document.documentElement.scrollWidth,
+        scrolling: [...document.querySelectorAll('.scroll, .index, figure.chart')].filter((e) => e.scrollWidth > e.clientWidth + 1).length,
+      }));
+      expect(pageWidth, file).toBeLessThanOrEqual(560);
+      expect(scrolling, file).toBeGreaterThan(0);
+      await page.close();
+    }
+  });
+
   it('prints every collapsed section open', async () => {
     await main.page.close();
     main = await openFile(split.layout.main);

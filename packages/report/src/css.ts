@@ -73,7 +73,7 @@ table.wide { width: 100%; }
 .note { color: var(--muted); font-size: 0.88rem; }
 .worse { color: var(--dark-orange); }
 .cards { display: grid; grid-template-columns: repeat(auto-fill, minmax(520px, 1fr)); gap: 14px; align-items: start; }
-@media (max-width: 600px) { .cards { grid-template-columns: 1fr; } }
+@media (max-width: 600px) { .cards, .team-cards { grid-template-columns: minmax(0, 1fr); } }
 .card { background: var(--paper); border: 1px solid var(--rule); border-radius: 6px; padding: 12px 16px; min-width: 0; }
 .card > header { display: flex; flex-wrap: wrap; align-items: baseline; gap: 4px 10px; margin-bottom: 6px; }
 .card header .label { color: var(--muted); }
@@ -92,7 +92,9 @@ ul.plain { margin: 4px 0; padding-left: 18px; }
 .withheld li, .conventions li { font-size: 0.9rem; }
 .ct td .sub { color: var(--muted); font-size: 0.8rem; margin-left: 4px; }
 .ct td, .ct th { white-space: nowrap; }
-.index { border: 1px solid var(--rule); border-radius: 6px; background: var(--paper); }
+.index { border: 1px solid var(--rule); border-radius: 6px; background: var(--paper); overflow-x: auto; }
+.index > .row, .index > details { min-width: 780px; }
+.index.pairs > .row, .index.pairs > details { min-width: 700px; }
 .index .row { display: grid; grid-template-columns: 1.2rem minmax(9rem, 12rem) minmax(8rem, 1fr) 5.5rem 4.8rem 4.8rem 4.8rem 132px; gap: 0 10px; align-items: center; padding: 5px 12px; }
 .index.pairs .row { grid-template-columns: 1.2rem minmax(14rem, 1.2fr) 11rem 4.8rem minmax(12rem, 1.6fr); }
 .index .row > span { min-width: 0; }
