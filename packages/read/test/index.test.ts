@@ -8,12 +8,17 @@ describe('public surface of @codeweir/read', () => {
       'DEFAULT_BATCH_FIELDS',
       'DEFAULT_BLOCK_SIZE',
       'DEFAULT_MAX_FIELD_BYTES',
+      'FORMATS',
+      'cellText',
+      'formatOf',
       'normalizeReadOptions',
+      'openAnyDelivery',
       'openDelivery',
       'openDeliveryRange',
       'readDeliveryText',
       'splitDelivery',
       'tokenizeFile',
+      'typeNotes',
     ]);
   });
 });
