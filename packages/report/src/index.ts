@@ -10,3 +10,4 @@ export { renderChart, renderCharts, CHART_CONFIG, type ChartDef } from './vega.t
 export { barChart, histogram, boxPlot, conditionalBars, scatter, missingHeatmap } from './charts.ts';
 export type { ChartSpec, Bar, Box, BoxPoint, Segment, HeatCell } from './charts.ts';
 export { boxFromValues, MAX_SCATTER_POINTS, MAX_BOX_POINTS } from './data.ts';
+export { discloseReportInput, disclosureSection, type ReportDisclosure, type DisclosureNote } from './disclosure.ts';

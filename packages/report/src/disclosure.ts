@@ -1,0 +1,203 @@
+/**
+ * Disclosure control of the report: before it is drawn, the report's input is rewritten so that
+ * every count from 1 to k - 1 (and each cell that would give one away) is suppressed, and the
+ * values of id items and confidential items are withheld.
+ *
+ * Suppression: the missingness counts by item and by group (check's missingnessSuppression, the
+ * same as its CSV files), each item's frequency table and histogram (one row whose total is the
+ * item's valid count, itself suppressed when the missingness table suppresses it), the
+ * cross-tables of pairs (cells with their row and column totals), the count of records by number
+ * of missing items, and the groups of a categorical-continuous pair with fewer than k cases
+ * (their statistics too). A suppressed count becomes NaN, which the report prints as "-", with
+ * the legend of {@link disclosureSection}; charts of a suppressed table are left out (a bar's
+ * height would give the count away), and scatter plots are left out (each point is a person).
+ * Withheld: findings' values on withheld items and, with suppression, record ids; everything
+ * but counts and missingness of a confidential item; pairs with a confidential item.
+ */
+import { suppressCells, type CellState } from '@codeweir/stats';
+import { missingnessSuppression, withholdFindings, WITHHELD_MARK, type LineStates } from '@codeweir/check';
+import type { CheckSummary, GroupItemTally } from '@codeweir/check';
+import type { ItemDescription, PairDescription } from '@codeweir/describe';
+import { KINDS } from '@codeweir/check';
+import type { ReportInput } from './context.ts';
+import { escapeHtml as esc } from './escape.ts';
+
+/** The disclosure settings of a report. */
+export interface ReportDisclosure {
+  /** Counts from 1 to minCell - 1 are suppressed; 1: none. */
+  minCell: number;
+  /** Items whose values are withheld. */
+  withhold: ReadonlySet<string>;
+  /** Record ids are withheld from findings. */
+  withholdIds: boolean;
+}
+
+/** What the rewrite did, for the legend. */
+export interface DisclosureNote {
+  minCell: number;
+  suppressed: number;
+  withheld: string[];
+  unprotected: number;
+}
+
+const clone = <T>(x: T): T => structuredClone(x);
+
+function applyLine(t: GroupItemTally, s: LineStates | undefined): number {
+  if (!s) return 0;
+  let n = 0;
+  const set = (j: number, write: () => void): void => {
+    if (s.cells[j]) {
+      write();
+      n++;
+    }
+  };
+  set(0, () => (t.valid = Number.NaN));
+  set(1, () => (t.invalid = Number.NaN));
+  KINDS.forEach((k, j) => set(2 + j, () => (t.missing[k] = Number.NaN)));
+  return n;
+}
+
+/**
+ * Suppresses a one-row table of counts whose total is shown elsewhere ('fixed'), or suppressed
+ * elsewhere (`totalHidden`: then the row must not give the total away either).
+ */
+function oneRow(counts: readonly number[], minCell: number, totalHidden: boolean): CellState[] {
+  return suppressCells([counts], minCell, { rows: totalHidden ? 'shown' : 'fixed', columns: 'hidden' }, { rowTotals: [totalHidden] }).cells[0]!;
+}
+
+function suppressItem(d: ItemDescription, minCell: number, validHidden: boolean): number {
+  let n = 0;
+  if (validHidden) d.n = Number.NaN;
+  if (d.frequencies && d.frequencies.length > 0) {
+    const states = oneRow(d.frequencies.map((f) => f.count), minCell, validHidden);
+    let first = -1;
+    d.frequencies.forEach((f, i) => {
+      if (!states[i]) return;
+      if (first === -1) first = i;
+      n++;
+      f.count = Number.NaN;
+      f.percent = Number.NaN;
+      if (f.weightedCount !== undefined) f.weightedCount = Number.NaN;
+      if (f.weightedPercent !== undefined) f.weightedPercent = Number.NaN;
+    });
+    // A cumulative percent after a suppressed row would give its count away.
+    if (first >= 0) for (let i = first; i < d.frequencies.length; i++) if (d.frequencies[i]!.cumulativePercent !== undefined) d.frequencies[i]!.cumulativePercent = Number.NaN;
+  }
+  if (d.histogram) {
+    const states = oneRow(d.histogram.counts, minCell, validHidden);
+    if (states.some((s) => s !== 0)) {
+      n += states.filter((s) => s !== 0).length;
+      delete d.histogram;
+    }
+  }
+  return n;
+}
+
+function suppressPair(p: PairDescription, minCell: number): { pair: PairDescription | null; n: number } {
+  if (p.kind === 'continuous-continuous') {
+    // Each point of a scatter plot is a record; only the coefficients are kept.
+    const q = { ...p, bivariateOutliers: [] as number[] };
+    delete q.sample;
+    delete q.sampleRows;
+    return { pair: q, n: 0 };
+  }
+  if (p.kind === 'categorical-categorical') {
+    const s = suppressCells(p.table, minCell, { rows: 'shown', columns: 'shown', grand: 'fixed' });
+    let n = 0;
+    const hide = (m: number[][]): void => m.forEach((row, i) => row.forEach((_, j) => s.cells[i]![j] && (row[j] = Number.NaN)));
+    s.cells.forEach((row) => row.forEach((c) => c && n++));
+    if (n > 0) {
+      hide(p.table);
+      hide(p.expected);
+      hide(p.rowPercent);
+      hide(p.columnPercent);
+      hide(p.cellPercent);
+    }
+    return { pair: p, n };
+  }
+  let n = 0;
+  for (const g of p.groups) {
+    if (g.n > 0 && g.n < minCell) {
+      g.n = Number.NaN;
+      g.mean = g.sd = g.median = g.q1 = g.q3 = null;
+      delete g.fences;
+      delete g.outliers;
+      delete g.extremes;
+      n++;
+    }
+  }
+  return { pair: p, n };
+}
+
+/** Leaves only the counts and missingness of a confidential item's description. */
+function withholdItem(d: ItemDescription): ItemDescription {
+  return {
+    level: d.level,
+    label: d.label,
+    n: d.n,
+    missing: d.missing,
+    invalid: d.invalid,
+    withheld: { ...d.withheld, values: 'a confidential item: its values are withheld (codeweir report --show-values shows them)' },
+    ...(d.conventions ? { conventions: d.conventions } : {}),
+  };
+}
+
+/**
+ * The report input rewritten for disclosure control (see the file comment), and what was done.
+ * The input is not changed. Cost: a copy of the check summary and the description, and one
+ * suppression per item, pair and missingness table. Throws nothing.
+ */
+export function discloseReportInput(input: ReportInput, opts: ReportDisclosure): { input: ReportInput; note: DisclosureNote } {
+  const summary: CheckSummary = clone(input.check.summary);
+  const describe = clone(input.describe);
+  let suppressed = 0;
+  let unprotected = 0;
+  const k = opts.minCell;
+  if (k > 1) {
+    const s = missingnessSuppression(input.check, k);
+    unprotected += s.unprotected;
+    for (const [name, t] of Object.entries(summary.items)) suppressed += applyLine(t, s.overall.get(name));
+    for (const [g, byKey] of Object.entries(summary.groups)) {
+      for (const [code, perItem] of Object.entries(byKey)) for (const [name, t] of Object.entries(perItem)) suppressed += applyLine(t, s.byGroup.get(g)?.get(code)?.get(name));
+    }
+    for (const [name, d] of Object.entries(describe.items)) suppressed += suppressItem(d, k, (s.overall.get(name)?.cells[0] ?? 0) !== 0);
+    const pairs: PairDescription[] = [];
+    for (const p of describe.pairs) {
+      const r = suppressPair(p, k);
+      suppressed += r.n;
+      if (r.pair) pairs.push(r.pair);
+    }
+    describe.pairs = pairs;
+    if (summary.recordMissing && summary.recordMissing.length > 0) {
+      const states = oneRow(summary.recordMissing, k, false);
+      summary.recordMissing = summary.recordMissing.map((v, i) => (states[i] ? Number.NaN : v));
+      suppressed += states.filter((x) => x !== 0).length;
+    }
+  }
+  for (const name of opts.withhold) if (describe.items[name]) describe.items[name] = withholdItem(describe.items[name]!);
+  describe.pairs = describe.pairs.filter((p) => !opts.withhold.has(p.x) && !opts.withhold.has(p.y));
+  const findings = withholdFindings(input.check.findings, { minCell: k, withhold: opts.withhold, withholdIds: opts.withholdIds });
+  return {
+    input: { ...input, check: { ...input.check, summary, findings }, describe },
+    note: { minCell: k, suppressed, withheld: [...opts.withhold], unprotected },
+  };
+}
+
+/**
+ * The legend of a disclosure-controlled report: what "-" and the withheld mark stand for.
+ * Cost: O(withheld items). Throws nothing.
+ */
+export function disclosureSection(note: DisclosureNote | undefined): string {
+  if (!note || (note.minCell <= 1 && note.withheld.length === 0)) return '';
+  const parts: string[] = [];
+  if (note.minCell > 1) {
+    parts.push(
+      `<p>Counts from 1 to ${note.minCell - 1} are suppressed, with the other cells that would let them be worked out from the totals shown: ${note.suppressed} cell${note.suppressed === 1 ? '' : 's'} of this report show <strong>-</strong> in place of a count (and of the percentages made from it). A zero is shown: an empty cell describes nobody. Charts of a table with a suppressed count, and scatter plots, are left out.</p>`,
+    );
+    if (note.unprotected > 0) parts.push(`<p>${note.unprotected} table${note.unprotected === 1 ? '' : 's'} could not be protected by suppressing cells alone; every nonzero count in ${note.unprotected === 1 ? 'it' : 'them'} is suppressed.</p>`);
+  }
+  if (note.withheld.length > 0) {
+    parts.push(`<p>Values of ${note.withheld.map((n) => `<code>${esc(n)}</code>`).join(', ')} are withheld (${esc(WITHHELD_MARK)}): id items and items the codebook marks confidential. <code>--show-values</code> shows them.</p>`);
+  }
+  return `<section id="disclosure"><h2>Disclosure control</h2>${parts.join('')}</section>`;
+}
