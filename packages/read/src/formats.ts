@@ -286,55 +286,81 @@ function xlsxValue(v: unknown): unknown {
   return cellText(v);
 }
 
+/** The kind of column a set of delivered cell kinds makes. */
+function columnKind(seen: ReadonlySet<DeliveredType>): DeliveredType {
+  if (seen.size === 0) return 'text';
+  if (seen.size === 1) return [...seen][0]!;
+  if (seen.has('text')) return 'text';
+  return [...seen].every((t) => t === 'integer' || t === 'decimal') ? 'decimal' : 'mixed';
+}
+
+interface SheetRow {
+  /** 1-based row number in the sheet. */
+  number: number;
+  values: unknown[];
+}
+
+/**
+ * The rows of one worksheet, streamed with exceljs's streaming workbook reader (one row in
+ * memory at a time; the reader parks worksheets that come before the shared strings in the
+ * archive in temporary files, which it removes). `sheet` names the worksheet; absent, the
+ * workbook's first. Calls `found` with the sheet's name before its first row. Throws
+ * CW_FILE_UNREADABLE for a file that is not a workbook, CW_USAGE for a sheet name the
+ * workbook lacks.
+ */
+async function* sheetRows(file: string, sheet: string | undefined, found: (name: string) => void): AsyncGenerator<SheetRow> {
+  const { default: ExcelJS } = await import('exceljs');
+  const reader = new ExcelJS.stream.xlsx.WorkbookReader(file, { sharedStrings: 'cache', hyperlinks: 'ignore', styles: 'cache', worksheets: 'emit', entries: 'ignore' });
+  let seen = false;
+  try {
+    for await (const ws of reader as unknown as AsyncIterable<AsyncIterable<{ number: number; values: unknown }> & { name: string }>) {
+      const sheets = ((reader as unknown as { model?: { sheets?: Array<{ name: string }> } }).model?.sheets ?? []).map((x) => x.name);
+      const want = sheet ?? sheets[0] ?? ws.name;
+      if (seen || ws.name !== want) {
+        for await (const _row of ws) void _row;
+        continue;
+      }
+      seen = true;
+      found(ws.name);
+      for await (const row of ws) {
+        const values = Array.isArray(row.values) ? (row.values as unknown[]).slice(1).map(xlsxValue) : [];
+        yield { number: row.number, values };
+      }
+    }
+  } catch (e) {
+    if (e instanceof CodeweirError) throw e;
+    throw unreadable(file, 'an xlsx workbook', e);
+  }
+  if (!seen) {
+    const names = ((reader as unknown as { model?: { sheets?: Array<{ name: string }> } }).model?.sheets ?? []).map((x) => x.name);
+    if (sheet === undefined) throw new CodeweirError('CW_FILE_EMPTY', `The workbook ${file} has no worksheet.`, { file });
+    throw new CodeweirError('CW_USAGE', `--sheet: the workbook ${file} has no sheet ${JSON.stringify(sheet)} (it has ${names.map((n) => JSON.stringify(n)).join(', ')}).`, { file });
+  }
+}
+
 /**
  * An xlsx workbook: the first worksheet, or the one named `sheet`. Row 1 is the header; every
  * later row (empty rows inside the data kept as rows of blank cells, trailing empty rows
- * dropped) is a data row with as many cells as the header. Read with exceljs's workbook reader
- * (the whole workbook in memory: fine for the sizes agencies send as workbooks; a delivery of
- * millions of rows belongs in CSV or Parquet).
+ * dropped) is a data row with as many cells as the header. Read with exceljs's streaming
+ * reader: opening reads up to the header row; each pass streams the sheet again, row by row.
+ * `columnTypes` is complete once a pass has ended.
  */
 async function openXlsxDelivery(file: string, options: XlsxOptions): Promise<Delivery> {
   const opts = normalizeReadOptions(options);
   await (await openForRead(file)).fh.close();
-  const { default: ExcelJS } = await import('exceljs');
-  const wb = new ExcelJS.Workbook();
-  try {
-    await wb.xlsx.readFile(file);
-  } catch (e) {
-    throw unreadable(file, 'an xlsx workbook', e);
+  let header: string[] | undefined;
+  let name = '';
+  for await (const row of sheetRows(file, options.sheet, (n) => (name = n))) {
+    if (row.values.every((v) => cellText(v) === '')) continue;
+    header = row.values.map(cellText);
+    break;
   }
-  const ws = options.sheet === undefined ? wb.worksheets[0] : wb.getWorksheet(options.sheet);
-  if (ws === undefined) {
-    if (options.sheet === undefined) throw new CodeweirError('CW_FILE_EMPTY', `The workbook ${file} has no worksheet.`, { file });
-    const names = wb.worksheets.map((w) => w.name);
-    throw new CodeweirError('CW_USAGE', `--sheet: the workbook ${file} has no sheet ${JSON.stringify(options.sheet)} (it has ${names.map((n) => JSON.stringify(n)).join(', ')}).`, { file });
-  }
-  const rows: unknown[][] = [];
-  ws.eachRow({ includeEmpty: true }, (row, n) => {
-    const values = Array.isArray(row.values) ? (row.values as unknown[]).slice(1) : [];
-    rows[n - 1] = values.map(xlsxValue);
-  });
-  for (let i = 0; i < rows.length; i++) if (rows[i] === undefined) rows[i] = [];
-  while (rows.length > 0 && rows[rows.length - 1]!.every((v) => cellText(v) === '')) rows.pop();
-  if (rows.length === 0) throw new CodeweirError('CW_FILE_EMPTY', `The worksheet ${ws.name} of ${file} is empty.`, { file });
-  const header = rows[0]!.map(cellText);
+  if (header === undefined) throw new CodeweirError('CW_FILE_EMPTY', `The worksheet ${name} of ${file} is empty.`, { file });
   while (header.length > 0 && header[header.length - 1] === '') header.pop();
   const width = header.length;
-  const seen: Array<Set<DeliveredType>> = header.map(() => new Set());
-  for (let r = 1; r < rows.length; r++) {
-    const row = rows[r]!;
-    for (let c = 0; c < width; c++) {
-      const t = xlsxType(row[c]);
-      if (t !== undefined) seen[c]!.add(t);
-    }
-  }
-  const columnTypes: Record<string, DeliveredType> = {};
-  header.forEach((h, c) => {
-    const s = seen[c]!;
-    columnTypes[h] = s.size === 0 ? 'text' : s.size === 1 ? [...s][0]! : s.has('text') ? 'text' : s.has('decimal') && [...s].every((t) => t === 'integer' || t === 'decimal') ? 'decimal' : 'mixed';
-  });
+  const cols = header;
   const batchRows = opts.batchRows ?? defaultBatchRows(width);
-  return {
+  const delivery: Delivery = {
     file,
     header,
     delimiter: '',
@@ -342,21 +368,51 @@ async function openXlsxDelivery(file: string, options: XlsxOptions): Promise<Del
     hadBom: false,
     firstDataLine: 2,
     format: 'xlsx',
-    sheet: ws.name,
-    columnTypes,
+    sheet: name,
     batches: async function* () {
+      const seen: Array<Set<DeliveredType>> = cols.map(() => new Set());
       const rc = new RowCollector(1, batchRows);
       const fields: string[] = new Array(width);
-      for (let r = 1; r < rows.length; r++) {
-        const row = rows[r]!;
-        for (let c = 0; c < width; c++) fields[c] = cellText(row[c]);
-        const b = rc.add(fields, r + 1);
+      const blank: string[] = new Array(width).fill('');
+      let inHeader = true;
+      let last = 0;
+      /** Empty rows are held back until a later row has data: trailing empty rows are dropped. */
+      let held: number[] = [];
+      for await (const row of sheetRows(file, options.sheet, () => undefined)) {
+        if (inHeader) {
+          if (row.values.every((v) => cellText(v) === '')) continue;
+          inHeader = false;
+          last = row.number;
+          continue;
+        }
+        for (let n = last + 1; n < row.number; n++) held.push(n);
+        last = row.number;
+        let any = false;
+        for (let c = 0; c < width; c++) {
+          const v = row.values[c];
+          fields[c] = cellText(v);
+          if (fields[c] !== '') any = true;
+          const t = xlsxType(v);
+          if (t !== undefined) seen[c]!.add(t);
+        }
+        if (!any) {
+          held.push(row.number);
+          continue;
+        }
+        for (const n of held) {
+          const b = rc.add(blank, n);
+          if (b) yield b;
+        }
+        held = [];
+        const b = rc.add(fields, row.number);
         if (b) yield b;
       }
-      const last = rc.flush();
-      if (last) yield last;
+      const tail = rc.flush();
+      if (tail) yield tail;
+      delivery.columnTypes = Object.fromEntries(cols.map((h, c) => [h, columnKind(seen[c]!)]));
     },
   };
+  return delivery;
 }
 
 // ---------------------------------------------------------------------------------------------

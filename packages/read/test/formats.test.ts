@@ -115,6 +115,33 @@ describe('xlsx and Parquet', () => {
   });
 });
 
+describe('xlsx rows', () => {
+  it('keeps empty rows inside the data as blank rows, drops trailing ones, and types the columns', async () => {
+    const { default: ExcelJS } = await import('exceljs');
+    const wb = new ExcelJS.Workbook();
+    const ws = wb.addWorksheet('wave2');
+    ws.addRow(['id', 'seen', 'remark']);
+    ws.addRow([1, new Date(Date.UTC(2026, 2, 2)), 'ok']);
+    ws.addRow([]);
+    ws.addRow([3, new Date(Date.UTC(2026, 2, 4)), new Date(Date.UTC(2026, 2, 5))]);
+    ws.getCell('A7').value = null;
+    const file = join(dir, 'rows.xlsx');
+    await wb.xlsx.writeFile(file);
+    const d = await openAnyDelivery(file);
+    expect(d.sheet).toBe('wave2');
+    expect(d.header).toEqual(['id', 'seen', 'remark']);
+    const rows: Array<{ line: number; fields: string[] }> = [];
+    for await (const b of d.batches()) for (let r = 0; r < b.count; r++) rows.push({ line: b.lines[r]!, fields: b.fields.slice(b.offsets[r]!, b.offsets[r + 1]!) });
+    expect(rows).toEqual([
+      { line: 2, fields: ['1', '2026-03-02', 'ok'] },
+      { line: 3, fields: ['', '', ''] },
+      { line: 4, fields: ['3', '2026-03-04', '2026-03-05'] },
+    ]);
+    // The workbook's own cell types: whole numbers, dates, and a column of text and a date.
+    expect(d.columnTypes).toEqual({ id: 'integer', seen: 'date', remark: 'text' });
+  });
+});
+
 describe('typeNotes', () => {
   it('notes a delivered type the item type does not take as it is, and no other', () => {
     const items = [
