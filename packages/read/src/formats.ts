@@ -54,7 +54,7 @@ export interface AnyReadOptions extends ReadOptions {
  * file gives: `csv` through {@link openDelivery} unchanged; `csv.gz` decompressed as a stream
  * (never inflated to disk) into the same tokenizer; `xlsx` the first worksheet or `sheet`;
  * `parquet` row group by row group. `delimiter` and `encoding` apply to csv and csv.gz only.
- * Cost: as the format's reader; memory for xlsx is the workbook (the reader holds it whole),
+ * Cost: as the format's reader; memory for xlsx is one row at a time (a streaming reader),
  * for Parquet one row group at a time. Throws CodeweirError (exit code 2): the file errors of
  * {@link openDelivery}, CW_FILE_UNREADABLE for a damaged gzip, workbook or Parquet file,
  * CW_USAGE for `sheet` on a non-workbook or a sheet name the workbook lacks.
