@@ -181,6 +181,7 @@ export function findingTarget(ctx: Pick<Ctx, 'item'>, name: string): string {
   return ctx.item(name) ? `<code>${esc(name)}</code>` : `<span class="nobr">rule <code>${esc(name)}</code></span>`;
 }
 
+/** A team's worst items as `item 3, rule college-age 1`, each kept on one line; `none` when there are none. */
 export const worstText = (ctx: Pick<Ctx, 'item'>, worst: Array<[string, number]>) =>
   worst.length === 0 ? '<span class="none">none</span>' : worst.map(([n, c]) => `<span class="nobr">${findingTarget(ctx, n)} ${num(c)}</span>`).join(', ');
 
@@ -225,7 +226,9 @@ function groupTable(ctx: Ctx, group: string, withPages: boolean, linked = true):
 /**
  * The first screen's table of field teams: the chosen group item's codes with errors,
  * warnings, missing percent and worst items, each linked to the team's section (and, in a
- * split report, its own page). With no group item, the items with the most findings instead.
+ * split report, its own page). Writes '' when the codebook has no group item (the verdict's
+ * reason then names the items behind the findings); on a team's page, the team beside the
+ * whole delivery instead.
  */
 export function teamsSection(ctx: Ctx): string {
   if (ctx.options.team) return comparisonSection(ctx);
