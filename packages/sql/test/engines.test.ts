@@ -13,6 +13,7 @@ import { mkdtemp, readFile, readdir, writeFile, mkdir } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { gzipSync } from 'node:zlib';
 import pg from 'pg';
 import { openDelivery } from '@codeweir/read';
 import { cli } from '../../../test/support/cli.ts';
@@ -91,6 +92,14 @@ describe('check --engine duckdb', () => {
     for (const rule of ['answered-when-skipped', 'blank-when-asked', 'duplicate-id', 'rule-failed', 'outlier', 'not-a-code', 'unbinned-value', 'impossible', 'implausible', 'ragged-row']) {
       expect(s.findings.byRule[rule], rule).toBeGreaterThan(0);
     }
+  });
+
+  it('gives the built-in answer on a gzip-compressed CSV file (DuckDB decompresses it itself)', async () => {
+    const file = join(dir, 'demo.csv.gz');
+    await writeFile(file, gzipSync(await readFile(ex('demo-delivery.csv'))));
+    const a = await summary(['check', file, '--codebook', CODEBOOK, '--threads', '1']);
+    const b = await summary(['check', file, '--codebook', CODEBOOK, '--engine', 'duckdb']);
+    expect(b).toEqual(a);
   });
 
   it('gives the built-in answer on a Parquet file', async () => {
