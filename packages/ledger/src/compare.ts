@@ -33,7 +33,7 @@ export interface ItemChange {
 
 export interface GroupChange {
   rows: Before<number>;
-  /** Share (0 to 100) of the cells of the group's rows that are missing (any kind). */
+  /** Share (0 to 100) of the cells of the group's rows that are missing, valid skips and free-text items left out (see GroupSnapshot). */
   missingPercent: Before<number | null>;
   /** Cells of the group's rows with an error finding (invalid cells). */
   errors: Before<number>;

@@ -18,7 +18,7 @@ export interface HistoryOptions {
 export interface GroupPoint {
   delivery: number;
   rows: number;
-  /** Share (0 to 100) of the group's cells that are missing; null when the group had no rows in that delivery. */
+  /** Share (0 to 100) of the group's cells that are missing (valid skips and free-text items left out); null when the group had no rows in that delivery. */
   missingPercent: number | null;
   /** Cells of the group's rows with an error finding (invalid cells). */
   errors: number;

@@ -32,7 +32,11 @@ export interface ItemSnapshot {
 export interface GroupSnapshot {
   /** Rows whose group cell holds this code (or `(missing)`, `(invalid)`). */
   rows: number;
-  /** Cells of the present items in these rows: all, missing (any kind), invalid. */
+  /**
+   * Cells of these rows: all, missing, invalid. Free-text items (text without codes, other than
+   * the id) are left out, as they are blank by design on most rows, and `missingCells` leaves out
+   * valid skips (`not-applicable`): the routing, not a gap. The report's team table counts the same way.
+   */
   cells: number;
   missingCells: number;
   invalidCells: number;
@@ -117,10 +121,12 @@ export function snapshotFromCheck(
       const gs: GroupSnapshot = { rows: own ? own.valid + own.invalid + sum(own.missing) : 0, cells: 0, missingCells: 0, invalidCells: 0, missing: {} };
       for (const [name, t] of Object.entries(perItem)) {
         const m = sum(t.missing);
-        gs.cells += t.valid + t.invalid + m;
-        gs.missingCells += m;
-        gs.invalidCells += t.invalid;
         if (m > 0) gs.missing[name] = { ...t.missing };
+        gs.invalidCells += t.invalid;
+        const it = codebook.byName.get(name);
+        if (it !== undefined && it.type === 'text' && it.codes.length === 0 && it.role !== 'id') continue;
+        gs.cells += t.valid + t.invalid + m;
+        gs.missingCells += m - (t.missing['not-applicable'] ?? 0);
       }
       groups[g][code] = gs;
     }

@@ -147,7 +147,7 @@ export function seasonSection(ctx: Ctx): string {
       ...(s.records ? [x.records ? `${x.records.added} / ${x.records.removed} / ${x.records.changed}` : '–'] : []),
     ]);
     parts.push(`<h3>By <code>${esc(g)}</code></h3>`);
-    parts.push(table({ head, rows: grows, numeric: [1, 2, 3], caption: '% missing: share of the cells of the group’s rows that are missing (any kind). Error cells: cells with an error finding.' }));
+    parts.push(table({ head, rows: grows, numeric: [1, 2, 3], caption: '% missing: share of the cells of the group’s rows that are missing, valid skips and free text left out. Error cells: cells with an error finding.' }));
     const t = s.trend;
     if (t && t.deliveries.length >= 2) {
       const list = t.deliveries.map((d, i) => `${i + 1}: ${d}`).join('; ');
