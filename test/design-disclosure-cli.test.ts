@@ -94,3 +94,55 @@ suite('check --min-cell and --show-values (CLI)', () => {
     expect(r.err).toMatch(/--min-cell takes a whole number of at least 1, got "few"/);
   });
 });
+
+suite('report --min-cell and --show-values (CLI)', () => {
+  // The invented demo delivery (examples/), its first 400 records, with income marked confidential.
+  async function demo(): Promise<[string, string]> {
+    const cbText = await readFile(new URL('../examples/household.codebook.json', import.meta.url), 'utf8');
+    const cb = JSON.parse(cbText) as { $schema?: string; items: Array<Record<string, unknown>> };
+    delete cb.$schema;
+    for (const it of cb.items) if (it.name === 'income') it.confidential = true;
+    const lines = (await readFile(new URL('../examples/demo-delivery.csv', import.meta.url), 'utf8')).split('\n').slice(0, 401);
+    const cbPath = join(dir, 'demo.codebook.json');
+    const dataPath = join(dir, 'demo400.csv');
+    await writeFile(cbPath, JSON.stringify(cb));
+    await writeFile(dataPath, lines.join('\n') + '\n');
+    return [cbPath, dataPath];
+  }
+
+  it('suppresses small counts in the frequency tables, explains the marks, withholds income', async () => {
+    const [cb, data] = await demo();
+    const out = join(dir, 'report-k.html');
+    const r = await cli(['report', data, '--codebook', cb, '-o', out, '--min-cell', '5', '--quiet'], dir);
+    expect([0, 1]).toContain(r.code);
+    const html = await readFile(out, 'utf8');
+    expect(html).toContain('id="disclosure"');
+    expect(html).toMatch(/Counts from 1 to 4 are suppressed/);
+    expect(html).not.toContain('NaN');
+    // Every count column of every frequency table: '-' (suppressed), 0 or at least 5.
+    const tables = [...html.matchAll(/<caption class="note">Percent of [^<]* valid cells[^<]*<\/caption><thead>(.*?)<\/thead><tbody>(.*?)<\/tbody>/g)];
+    expect(tables.length).toBeGreaterThan(5);
+    let dashes = 0;
+    for (const [, head, body] of tables) {
+      const heads = [...head!.matchAll(/<th[^>]*>(.*?)<\/th>/g)].map((m) => m[1]);
+      const at = heads.indexOf('count');
+      for (const row of body!.split('</tr>').filter((x) => x.includes('<td'))) {
+        const cell = [...row.matchAll(/<td[^>]*>(.*?)<\/td>/g)].map((m) => m[1]!)[at]!;
+        if (cell === '-') dashes++;
+        else expect(Number(cell.replace(/,/g, '')) === 0 || Number(cell.replace(/,/g, '')) >= 5, `count ${cell}`).toBe(true);
+      }
+    }
+    expect(dashes).toBeGreaterThan(0);
+    expect(html).toContain('confidential item: its values are withheld');
+    const plain = join(dir, 'report-plain.html');
+    await cli(['report', data, '--codebook', cb, '-o', plain, '--show-values', '--quiet'], dir);
+    expect(await readFile(plain, 'utf8')).not.toContain('id="disclosure"');
+  }, 120_000);
+
+  it('--min-cell with --split-by is refused before anything is read', async () => {
+    const [cb, data] = await demo();
+    const r = await cli(['report', data, '--codebook', cb, '-o', join(dir, 'x.html'), '--min-cell', '--split-by', 'team'], dir);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/--min-cell does not combine with --split-by/);
+  });
+});

@@ -6,6 +6,7 @@ import type { ChartDef } from './vega.ts';
 import { MAX_SCATTER_POINTS } from './data.ts';
 import { commonWithheld } from './glossary.ts';
 import type { SeasonInput } from './season.ts';
+import { holdsSuppressed, type DisclosureNote } from './disclosure.ts';
 
 /** What {@link renderReport} reads. */
 export interface ReportInput {
@@ -18,6 +19,8 @@ export interface ReportInput {
   generatedAt?: string;
   /** The comparison with the previous delivery and the season's trend (report --previous / --ledger). */
   season?: SeasonInput;
+  /** Set by discloseReportInput: what was suppressed and withheld, for the legend. */
+  disclosure?: DisclosureNote;
 }
 
 /** Knobs of the report; the defaults keep a report of a large delivery to a few megabytes. */
@@ -94,6 +97,8 @@ export function createCtx(input: ReportInput, options: ReportOptions = {}): Ctx 
     },
     charts,
     chart(def) {
+      // A chart of a table with a suppressed count (NaN) would show it by its bar: left out.
+      if (holdsSuppressed(def.spec)) return '';
       const id = `chart-${charts.length + 1}`;
       charts.push({ ...def, id });
       return `<!--chart:${id}-->`;

@@ -177,10 +177,29 @@ export function discloseReportInput(input: ReportInput, opts: ReportDisclosure):
   for (const name of opts.withhold) if (describe.items[name]) describe.items[name] = withholdItem(describe.items[name]!);
   describe.pairs = describe.pairs.filter((p) => !opts.withhold.has(p.x) && !opts.withhold.has(p.y));
   const findings = withholdFindings(input.check.findings, { minCell: k, withhold: opts.withhold, withholdIds: opts.withholdIds });
+  // Box plots and points read the retained columns: a withheld item's column is not handed on.
+  const columns = Object.fromEntries(Object.entries(input.check.store.columns).filter(([name]) => !opts.withhold.has(name)));
+  const note: DisclosureNote = { minCell: k, suppressed, withheld: [...opts.withhold], unprotected };
   return {
-    input: { ...input, check: { ...input.check, summary, findings }, describe },
-    note: { minCell: k, suppressed, withheld: [...opts.withhold], unprotected },
+    input: { ...input, check: { ...input.check, summary, findings, store: { ...input.check.store, columns } }, describe, disclosure: note },
+    note,
   };
+}
+
+/** A count in running text: as it is, or "-" when suppressed (NaN). Cost: O(1). */
+export function countText(n: number): string {
+  return Number.isNaN(n) ? '-' : String(n);
+}
+
+/** Whether a chart's data holds a suppressed count (NaN). Cost: a walk of the spec's data values. */
+export function holdsSuppressed(spec: unknown): boolean {
+  const walk = (x: unknown, depth: number): boolean => {
+    if (typeof x === 'number') return Number.isNaN(x);
+    if (depth > 6 || x === null || typeof x !== 'object') return false;
+    return Array.isArray(x) ? x.some((v) => walk(v, depth + 1)) : Object.values(x as Record<string, unknown>).some((v) => walk(v, depth + 1));
+  };
+  const data = (spec as { data?: unknown; datasets?: unknown; layer?: unknown } | null) ?? {};
+  return walk(data.data, 0) || walk(data.datasets, 0) || walk(data.layer, 0);
 }
 
 /**

@@ -9,6 +9,7 @@ import { histogramSorted, sortedValid, type Histogram } from '@codeweir/stats';
 import { boxFromValues, columnValues } from './data.ts';
 import { sparkBars } from './spark.ts';
 import { conventionLines, levelGroup, particularConventions, particularWithheld, withheldAnchor, withheldLines } from './glossary.ts';
+import { countText } from './disclosure.ts';
 
 /** Display keys for categories: the label, with the code added where labels repeat (vega groups by key). */
 export function categoryKeys(positions: ReadonlyArray<Pick<OrdinalPosition, 'code' | 'label'>>): string[] {
@@ -53,10 +54,10 @@ function sparkOf(ctx: Ctx, name: string, d: ItemDescription): string {
   const item = ctx.item(name);
   if (d.frequencies && d.frequencies.length > 0) {
     const freqs = orderedFrequencies(ctx, d, item);
-    return sparkBars(freqs.map((f) => f.count), `${name}: ${freqs.length} categories, ${d.n} valid cells`, false);
+    return sparkBars(freqs.map((f) => f.count), `${name}: ${freqs.length} categories, ${countText(d.n)} valid cells`, false);
   }
   const hist = d.histogram ?? histogramOf(columnValues(ctx.input.check.store, name));
-  return hist ? sparkBars(hist.counts, `${name}: histogram of ${d.n} valid values in ${hist.counts.length} bins`, true) : '';
+  return hist ? sparkBars(hist.counts, `${name}: histogram of ${countText(d.n)} valid values in ${hist.counts.length} bins`, true) : '';
 }
 
 function itemEntry(ctx: Ctx, name: string, d: ItemDescription, k: number): string {
@@ -114,7 +115,7 @@ function categoricalChart(ctx: Ctx, name: string, d: ItemDescription, item: Comp
   const what = itemText(ctx, name);
   const title = `${what}: valid cells by category`;
   const top = [...bars].sort((a, b) => b.count - a.count)[0]!;
-  const description = `Bar chart of ${bars.length} categories of ${what}, ${order}, over ${d.n} valid cells; the largest is ${top.key} with ${top.count} (${top.percent.toFixed(1)}%).`;
+  const description = `Bar chart of ${bars.length} categories of ${what}, ${order}, over ${countText(d.n)} valid cells; the largest is ${top.key} with ${top.count} (${top.percent.toFixed(1)}%).`;
   return figure(ctx, barChart(title, description, bars), `Bars ${order}; separate bars because the categories are distinct. Numbers at the bar ends are percent of valid cells. The frequency table below is this chart's table.`);
 }
 
@@ -129,7 +130,7 @@ function continuousCharts(ctx: Ctx, name: string, d: ItemDescription): string {
   if (hist && hist.counts.length > 0) {
     const width = hist.edges.length > 1 ? hist.edges[1]! - hist.edges[0]! : 0;
     const title = `${what}: distribution`;
-    const description = `Histogram of ${d.n} valid values of ${what} in ${hist.counts.length} bins (${hist.rule}) from ${at(hist.edges[0])} to ${at(hist.edges.at(-1))}.`;
+    const description = `Histogram of ${countText(d.n)} valid values of ${what} in ${hist.counts.length} bins (${hist.rule}) from ${at(hist.edges[0])} to ${at(hist.edges.at(-1))}.`;
     const alt = table({
       head: ['from', 'to', 'count'],
       numeric: [0, 1, 2],
@@ -253,5 +254,5 @@ function frequencyTable(d: ItemDescription, freqs: readonly Frequency[]): string
     ...(cum ? [pct(f.cumulativePercent)] : []),
     ...(weighted ? [num(f.weightedCount), pct(f.weightedPercent)] : []),
   ]);
-  return table({ head, rows, numeric: head.map((_, i) => i).filter((i) => i >= 2), caption: `Percent of ${d.n} valid cells; missing codes are not categories.` });
+  return table({ head, rows, numeric: head.map((_, i) => i).filter((i) => i >= 2), caption: `Percent of ${countText(d.n)} valid cells; missing codes are not categories.` });
 }

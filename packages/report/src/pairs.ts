@@ -7,6 +7,7 @@ import { boxPlot, conditionalBars, scatter, type Box, type BoxPoint, type Segmen
 import { boxFromValues, pairPoints, pointsAtRows, thin, valuesByCode } from './data.ts';
 import { categoryKeys } from './items.ts';
 import { conventionLines } from './glossary.ts';
+import { countText } from './disclosure.ts';
 
 /**
  * The pairs as an index: one row per pair with its kind, n and headline association; the
@@ -78,7 +79,7 @@ function categorical(ctx: Ctx, p: PairCategorical): string {
   const xs = itemText(ctx, p.x);
   const ys = itemText(ctx, p.y);
   const title = `${ys} within each category of ${xs}`;
-  const description = `100% stacked bars: one bar per category of ${xs} (${rowKeys.length}), split into the ${colKeys.length} categories of ${ys}; segment lengths are row percents over ${p.n} rows where both are valid.`;
+  const description = `100% stacked bars: one bar per category of ${xs} (${rowKeys.length}), split into the ${colKeys.length} categories of ${ys}; segment lengths are row percents over ${countText(p.n)} rows where both are valid.`;
   const chart = figure(ctx, conditionalBars(title, description, rowKeys, colKeys, segments, ys, yOrdinal), `Each bar is one category of ${p.x} and sums to 100%: the shares of ${p.y} within it (row percents). The contingency table below is this chart's table.`);
   const rowTotals = p.table.map((r) => r.reduce((a, b) => a + b, 0));
   const colTotals = p.columns.map((_, j) => p.table.reduce((a, r) => a + (r[j] ?? 0), 0));
@@ -122,7 +123,7 @@ function continuous(ctx: Ctx, p: PairContinuous): string {
   const ys = itemText(ctx, p.y);
   const unit = (name: string) => (ctx.item(name)?.unit ? `${name} (${ctx.item(name)!.unit})` : name);
   const title = `${ys} against ${xs}`;
-  const description = `Scatter plot of ${points.length} of ${p.n} rows where both ${p.x} and ${p.y} are valid; ${flagged.length} bivariate outliers drawn as diamonds.`;
+  const description = `Scatter plot of ${points.length} of ${countText(p.n)} rows where both ${p.x} and ${p.y} are valid; ${flagged.length} bivariate outliers drawn as diamonds.`;
   const alt = table({
     head: ['row', p.x, p.y],
     numeric: [0, 1, 2],
@@ -167,7 +168,7 @@ function mixed(ctx: Ctx, p: PairMixed): string {
   const cs = itemText(ctx, cat);
   const ns = itemText(ctx, cont);
   const title = `${ns} by ${cs}`;
-  const description = `Side-by-side box plots of ${ns}, one for each of ${boxes.length} categories of ${cs}, over ${p.n} rows where both are valid.`;
+  const description = `Side-by-side box plots of ${ns}, one for each of ${boxes.length} categories of ${cs}, over ${countText(p.n)} rows where both are valid.`;
   const unit = ctx.item(cont)?.unit;
   const whiskers = exactAll ? 'whiskers to the most extreme values inside the inner fences' : 'whiskers drawn to the inner fences where the values were not retained';
   const chart =

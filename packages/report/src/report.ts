@@ -10,6 +10,7 @@ import { toFixSection } from './to-fix.ts';
 import { seasonSection } from './season.ts';
 import { pageShell } from './page.ts';
 import { renderCharts } from './vega.ts';
+import { disclosureSection } from './disclosure.ts';
 
 export { CONTENT_SECURITY_POLICY } from './page.ts';
 
@@ -28,6 +29,7 @@ interface Section {
  */
 const SECTIONS: readonly Section[] = [
   { id: 'verdict', label: 'Verdict', render: verdictSection },
+  { id: 'disclosure', label: 'Disclosure control', render: (ctx) => disclosureSection(ctx.input.disclosure) },
   { id: 'teams', label: 'Teams', render: teamsSection },
   { id: 'season', label: 'Since the previous delivery', render: seasonSection },
   { id: 'to-fix', label: 'Rows to fix', render: toFixSection },

@@ -15,7 +15,8 @@ export const SPARK_HEIGHT = 20;
  * @example sparkBars([3, 5, 1], 'age: 3 bins', true)
  */
 export function sparkBars(values: readonly number[], label: string, touching: boolean): string {
-  if (values.length === 0) return '';
+  // A suppressed count (NaN, see disclosure.ts) would give a bar away: no sparkline then.
+  if (values.length === 0 || values.some((v) => Number.isNaN(v))) return '';
   const top = Math.max(...values);
   const n = values.length;
   const step = SPARK_WIDTH / n;

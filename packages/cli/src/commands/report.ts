@@ -8,6 +8,8 @@ import { THREADS_OPTION, threadsOption } from '../threads.ts';
 import { LANG_OPTION, langOption } from '../lang.ts';
 import { createProgress, type Progress } from '../progress.ts';
 import { LEDGER_WAIT_OPTION, DRIFT_P_OPTION, DRIFT_PSI_OPTION, reportSeasonOptions, seasonForReport } from '../season.ts';
+import { MIN_CELL_OPTION, SHOW_VALUES_OPTION, disclosureChoice } from '../disclosure.ts';
+import { designArgs } from './describe.ts';
 
 /** Counts rows as the one pass reads them, for the progress line. */
 function counted(d: Delivery, progress: Progress): Delivery {
@@ -57,6 +59,12 @@ export const reportCommand: CommandDef = {
       .option('ledger-wait', LEDGER_WAIT_OPTION)
       .option('drift-p', DRIFT_P_OPTION)
       .option('drift-psi', DRIFT_PSI_OPTION)
+      .option('strata', { type: 'string', describe: "strata item of the sample design (default: the codebook's design)" })
+      .option('cluster', { type: 'string', describe: 'cluster (primary sampling unit) item of the sample design' })
+      .option('fpc', { type: 'string', describe: 'finite population correction item: population count of clusters per stratum, or sampling fraction' })
+      .option('by', { type: 'string', describe: 'a group item: design-based estimates in each of its codes (domains)' })
+      .option('min-cell', MIN_CELL_OPTION)
+      .option('show-values', SHOW_VALUES_OPTION)
       .option('quiet', { type: 'boolean', default: false, describe: 'no progress on stderr' }),
   handler: async (args, io) => {
     // Every option is checked before any file is read, so a typo fails at once.
@@ -69,7 +77,7 @@ export const reportCommand: CommandDef = {
     const threads = threadsOption(args.threads);
     // Loaded here, not at the top, so that starting the CLI costs only the command it runs (the
     // report package, with its chart libraries, is by far the largest).
-    const [{ loadCodebookOrThrow }, { checkDelivery, checkFile, normalizeCheckOptions }, { describeParallel, normalizeDescribeOptions }, { openDelivery }, { renderReport, renderSplitReport, groupItemOrThrow }] = await Promise.all([
+    const [{ loadCodebookOrThrow }, { checkDelivery, checkFile, normalizeCheckOptions }, { describeParallel, normalizeDescribeOptions }, { openDelivery }, { renderReport, renderSplitReport, groupItemOrThrow, discloseReportInput }] = await Promise.all([
       import('@codeweir/codebook'),
       import('@codeweir/check'),
       import('@codeweir/describe'),
@@ -80,6 +88,7 @@ export const reportCommand: CommandDef = {
       quantileType: args.quantiles,
       weight: args.weight,
       pairs: pairsFlag === 'all' ? 'all' : ((args.pair as string[] | undefined) ?? []),
+      ...designArgs(args),
     });
     const checkOptions = normalizeCheckOptions({ quantileType: args.quantiles, delimiter: args.delimiter, encoding: args.encoding });
     const data = String(args.data);
@@ -90,6 +99,10 @@ export const reportCommand: CommandDef = {
     const lang = langOption(args.lang);
     const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)), lang === undefined ? {} : { lang });
     const splitBy = args['split-by'] === undefined ? undefined : groupItemOrThrow(codebook, String(args['split-by']));
+    const disclosure = disclosureChoice(args, codebook);
+    if (disclosure.minCell > 1 && splitBy !== undefined) {
+      throw new CodeweirError('CW_USAGE', '--min-cell does not combine with --split-by in report yet: the team pages would need the main page\'s suppression; send teams the files of check --split-by --min-cell instead.');
+    }
     const seasonOptions = await reportSeasonOptions(args, io.cwd);
     const progress = createProgress(io, { label: 'reading rows', quiet: args.quiet === true });
     try {
@@ -112,7 +125,9 @@ export const reportCommand: CommandDef = {
       // With --previous or --ledger: the comparison and the trend (the ledger is loaded only then).
       if (seasonOptions !== undefined) progress.phase('comparing with the previous delivery');
       const season = seasonOptions === undefined ? undefined : await seasonForReport(seasonOptions, io.cwd, result, codebook, { path: dataPath, name: data, input, read: { delimiter: checkOptions.delimiter, encoding: checkOptions.encoding }, threads, ...(splitBy ? { groupItem: splitBy } : {}) });
-      const reportInput = { check: result, describe: described, codebook, file: data, ...(season ? { season } : {}) };
+      const plainInput = { check: result, describe: described, codebook, file: data, ...(season ? { season } : {}) };
+      // Disclosure control only when asked for or needed (a confidential item): otherwise the report is as before.
+      const reportInput = disclosure.minCell > 1 || disclosure.withhold.size > 0 ? discloseReportInput(plainInput, disclosure).input : plainInput;
       let pages = '';
       if (splitBy === undefined) {
         await writeFileAtomic(outPath, await renderReport(reportInput));
