@@ -152,7 +152,7 @@ export function celToSql(ctx: ExpressionContext, site: ExpressionSite, vars: Var
         }
         if (fn === 'size' && args.length === 1) {
           const a = t(args[0]!);
-          if (a.kind === 'string') return { sql: `CHAR_LENGTH(${a.sql})`, kind: 'num' };
+          if (a.kind === 'string') return { sql: `LENGTH(${a.sql})`, kind: 'num' };
         }
         return refuse(site, `the function ${fn}()`, n, dialect);
       }
@@ -161,8 +161,8 @@ export function celToSql(ctx: ExpressionContext, site: ExpressionSite, vars: Var
         const s = t(recv);
         const a = args.length === 1 ? t(args[0]!) : undefined;
         if (s.kind === 'string' && a?.kind === 'string') {
-          if (fn === 'startsWith') return { sql: `(SUBSTRING(${s.sql}, 1, CHAR_LENGTH(${a.sql})) = ${a.sql})`, kind: 'bool' };
-          if (fn === 'endsWith') return { sql: `(CHAR_LENGTH(${s.sql}) >= CHAR_LENGTH(${a.sql}) AND SUBSTRING(${s.sql}, CHAR_LENGTH(${s.sql}) - CHAR_LENGTH(${a.sql}) + 1) = ${a.sql})`, kind: 'bool' };
+          if (fn === 'startsWith') return { sql: `(SUBSTRING(${s.sql}, 1, LENGTH(${a.sql})) = ${a.sql})`, kind: 'bool' };
+          if (fn === 'endsWith') return { sql: `(LENGTH(${s.sql}) >= LENGTH(${a.sql}) AND SUBSTRING(${s.sql}, LENGTH(${s.sql}) - LENGTH(${a.sql}) + 1) = ${a.sql})`, kind: 'bool' };
           if (fn === 'contains') return { sql: `(POSITION(${a.sql} IN ${s.sql}) > 0)`, kind: 'bool' };
         }
         return refuse(site, `the method .${fn}()`, n, dialect);

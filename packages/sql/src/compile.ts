@@ -227,7 +227,7 @@ export function compileCheckSql(codebook: CompiledCodebook, options: CompileSqlO
       value = N(i);
     } else {
       whens.push(...textMissing);
-      if (item.pattern) whens.push(`WHEN CHAR_LENGTH(${T(i)}) > ${opts.maxPatternLength} OR NOT ${d.regex(T(i), patternSql(item, d))} THEN 'x:pattern-mismatch'`);
+      if (item.pattern) whens.push(`WHEN LENGTH(${T(i)}) > ${opts.maxPatternLength} OR NOT ${d.regex(T(i), patternSql(item, d))} THEN 'x:pattern-mismatch'`);
       whens.push(`ELSE 'ok'`);
       value = T(i);
     }
@@ -320,7 +320,7 @@ export function compileCheckSql(codebook: CompiledCodebook, options: CompileSqlO
   // --- 5. Findings.
   const groupCols = groupItems.map((_, k) => `g${k}`);
   const gsel = groupCols.length ? `, ${groupCols.join(', ')}` : '';
-  const cut = (x: string) => `CASE WHEN CHAR_LENGTH(${x}) > ${MAX_VALUE_CHARS} THEN SUBSTRING(${x}, 1, ${MAX_VALUE_CHARS}) || '...' ELSE ${x} END`;
+  const cut = (x: string) => `CASE WHEN LENGTH(${x}) > ${MAX_VALUE_CHARS} THEN SUBSTRING(${x}, 1, ${MAX_VALUE_CHARS}) || '...' ELSE ${x} END`;
   const ruleOrder = (rule: FindingRule) => num(R[rule]);
   const fsel = (row: string, item: string, value: string, rule: FindingRule, severity: string, message: string, sugg: string, col: number, numeric: string, where: string) =>
     `SELECT ${row} AS "row", cw_id AS id, ${item} AS item, ${value} AS value, ${lit(rule)} AS rule, ${severity} AS severity, ${message} AS message, ${sugg} AS suggestion, ${num(col)} AS cw_col, ${ruleOrder(rule)} AS cw_rule, ${numeric} AS cw_number${gsel} FROM cw_final WHERE ${where}`;
