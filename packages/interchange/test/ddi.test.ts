@@ -12,6 +12,8 @@ import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { XMLParser } from 'fast-xml-parser';
 import { parseCodebook } from '@codeweir/codebook';
+import { checkFile } from '@codeweir/check';
+import { describe as describeDelivery } from '@codeweir/describe';
 import { codebookFromDdi, ddiFromCodebook } from '../src/index.ts';
 
 /** Child element sequences of codebook.xsd 2.5 (a child may repeat; order must not go back). */
@@ -109,6 +111,16 @@ describe('DDI-Codebook 2.5 export', () => {
       '/codeBook/dataDscr/var/qstn: out of order within var',
     ]);
     expect(schemaProblems(xml.replace('intrvl="discrete"', 'intrvl="whole"'))).toEqual(['/codeBook/dataDscr/var: intrvl="whole" is not one of contin, discrete']);
+  });
+
+  it('with a delivery\'s statistics (fileDscr, sumStat, catStat) it still follows them', async () => {
+    const compiled = parseCodebook(JSON.stringify(demo));
+    if (!compiled.ok) throw new Error('the demo codebook is valid');
+    const result = await checkFile(`${root}examples/demo-delivery.csv`, compiled.codebook, { threads: 1 });
+    const xml = ddiFromCodebook(demo, { file: 'demo-delivery.csv', summary: result.summary, described: describeDelivery(result, compiled.codebook, {}) });
+    expect(xml).toContain('<sumStat type="stdev">');
+    expect(xml).toContain('<catStat type="freq">');
+    expect(schemaProblems(xml)).toEqual([]);
   });
 
   it('writes the elements a DDI reader expects for an item', () => {

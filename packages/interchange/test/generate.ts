@@ -114,7 +114,8 @@ export const codebookArb: fc.Arbitrary<Codebook> = fc
     version: fc.stringMatching(/^[0-9]{1,2}(\.[0-9]{1,2}){0,2}$/),
     title: textArb,
     multi: fc.boolean(),
-    names: fc.uniqueArray(fc.stringMatching(/^[a-z][a-z0-9_]{0,6}$/), { minLength: 1, maxLength: 6 }),
+    // Names start with q: a name that is a CEL reserved word (if, in, ...) cannot be used in routing.
+    names: fc.uniqueArray(fc.stringMatching(/^q[a-z0-9_]{0,6}$/), { minLength: 1, maxLength: 6 }),
     hasSet: fc.boolean(),
   })
   .chain(({ codebook, version, title, multi, names, hasSet }) => {
