@@ -221,6 +221,24 @@ describe('check --ledger, history, --split-by', () => {
     expect(both.err).toMatch(/not both/);
   });
 
+  it('a ledger named in the project file codeweir.json beside the codebook', async () => {
+    const { mkdir } = await import('node:fs/promises');
+    await mkdir(join(dir, 'project'), { recursive: true });
+    await writeFile(join(dir, 'project', 'cb.json'), JSON.stringify(codebook));
+    await writeFile(join(dir, 'project', 'codeweir.json'), JSON.stringify({ ledger: 'ledger/season.duckdb' }));
+    const r = await cli(['check', 'week1.csv', '--codebook', 'project/cb.json', '--json', '--threads', '1'], dir);
+    expect(r.code, r.err).toBe(0);
+    expect(JSON.parse(r.out).ledger).toMatchObject({ delivery: 1, duplicate: false });
+    // The path is taken from the project file's folder.
+    const h = await cli(['history', '--ledger', 'project/ledger/season.duckdb', '--json'], dir);
+    expect(JSON.parse(h.out).deliveries.map((d: { file: string }) => d.file)).toEqual(['week1.csv']);
+    await writeFile(join(dir, 'project', 'codeweir.json'), JSON.stringify({ ledgr: 'x.duckdb' }));
+    const bad = await cli(['check', 'week1.csv', '--codebook', 'project/cb.json', '--threads', '1'], dir);
+    expect(bad.code).toBe(2);
+    expect(bad.err).toMatch(/codeweir\.json has a field "ledgr"; the project file knows only "ledger"/);
+    expect(bad.err.trim().split('\n')).toHaveLength(1);
+  });
+
   it('history of a file that is not there, or not a ledger: exit 2, one sentence', async () => {
     const r = await cli(['history', '--ledger', 'missing.duckdb'], dir);
     expect(r.code).toBe(2);

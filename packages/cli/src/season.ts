@@ -4,7 +4,7 @@
  * import of @codeweir/ledger (and so of DuckDB's native module) is dynamic, so a command that
  * does not use the ledger never loads it.
  */
-import { join, resolve } from 'node:path';
+import { dirname, join, resolve } from 'node:path';
 import type { CheckResult } from '@codeweir/check';
 import type { CompiledCodebook } from '@codeweir/codebook';
 import type { AppendResult, Comparison, DeliverySnapshot, DriftThresholds, History } from '@codeweir/ledger';
@@ -192,6 +192,52 @@ export interface LedgerContext {
  * options (both --ledger and --previous; --engine other than builtin: the ledger records delivery
  * files as the built-in reader reads them).
  */
+/** The project file next to a codebook that may name the season's ledger. */
+export const PROJECT_FILE = 'codeweir.json';
+
+/**
+ * The ledger named by the project file `codeweir.json` in the codebook's folder, resolved
+ * against that folder: `{ "ledger": "season.duckdb" }`. Returns undefined when there is no such
+ * file. Cost: one stat, and one small read when the file exists. Throws CodeweirError CW_USAGE
+ * (with the file) when it is not a JSON object holding only a `ledger` text.
+ */
+export async function projectLedger(codebookPath: string): Promise<string | undefined> {
+  const { readFile } = await import('node:fs/promises');
+  const file = join(dirname(codebookPath), PROJECT_FILE);
+  let text: string;
+  try {
+    text = await readFile(file, 'utf8');
+  } catch {
+    return undefined;
+  }
+  let doc: unknown;
+  try {
+    doc = JSON.parse(text);
+  } catch (e) {
+    throw new CodeweirError('CW_USAGE', `${file} is not valid JSON (${(e as Error).message}); it should read like { "ledger": "season.duckdb" }.`, { file });
+  }
+  if (typeof doc !== 'object' || doc === null || Array.isArray(doc)) throw new CodeweirError('CW_USAGE', `${file} should hold a JSON object like { "ledger": "season.duckdb" }.`, { file });
+  for (const key of Object.keys(doc)) if (key !== 'ledger') throw new CodeweirError('CW_USAGE', `${file} has a field ${JSON.stringify(key)}; the project file knows only "ledger".`, { file });
+  const ledger = (doc as { ledger?: unknown }).ledger;
+  if (ledger === undefined) return undefined;
+  if (typeof ledger !== 'string' || ledger.trim() === '') throw new CodeweirError('CW_USAGE', `${file}: "ledger" takes the path of the ledger file, got ${JSON.stringify(ledger)}.`, { file });
+  return resolve(dirname(file), ledger);
+}
+
+/**
+ * `check`'s season step, or undefined when there is nothing to do: with --ledger or --previous,
+ * or a ledger named in the project file next to the codebook (see {@link projectLedger}).
+ * Throws as {@link ledgerSetup} and {@link projectLedger}.
+ */
+export async function checkSeason(args: Record<string, unknown>, cwd: string): Promise<Awaited<ReturnType<typeof ledgerSetup>> | undefined> {
+  if (args.ledger === undefined && args.previous === undefined) {
+    const fromProject = await projectLedger(resolve(cwd, String(args.codebook)));
+    if (fromProject === undefined) return undefined;
+    return ledgerSetup({ ...args, ledger: fromProject }, cwd);
+  }
+  return ledgerSetup(args, cwd);
+}
+
 export async function ledgerSetup(args: Record<string, unknown>, cwd: string): Promise<{
   record(result: CheckResult, codebook: CompiledCodebook, ctx: LedgerContext): Promise<{ key: 'ledger' | 'previous'; json: Record<string, unknown>; line: string }>;
 }> {

@@ -5,7 +5,7 @@ import { CodeweirError } from '@codeweir/core';
 import type { CommandDef, Io } from '../io.ts';
 import { THREADS_OPTION, threadsOption } from '../threads.ts';
 import { FORMAT_OPTION, SHEET_OPTION, checkTypedInput, inputFormatOf, isPlainText } from '../formats.ts';
-import { LEDGER_WAIT_OPTION, DRIFT_P_OPTION, DRIFT_PSI_OPTION, ledgerSetup } from '../season.ts';
+import { LEDGER_WAIT_OPTION, DRIFT_P_OPTION, DRIFT_PSI_OPTION, checkSeason } from '../season.ts';
 import { MIN_CELL_OPTION, SHOW_VALUES_OPTION, disclosureChoice, withDesignOptions } from '../disclosure.ts';
 
 function plural(n: number, word: string): string {
@@ -108,8 +108,9 @@ export const checkCommand: CommandDef = {
       .option('engine', { type: 'string', choices: ['builtin', 'duckdb', 'postgres'], default: 'builtin', describe: 'where the checks run: the built-in reader, embedded DuckDB (CSV or Parquet), or a PostgreSQL server (needs --connection; <data> is then a table name)' })
       .option('connection', { type: 'string', describe: 'with --engine postgres: the server, as postgresql://user@host:port/database (a host of /path is a unix-socket folder)' })
       .option('row-column', { type: 'string', describe: 'with --engine postgres: the table column that numbers the rows (default: the order the server returns them in)' })
-      .option('ledger', { type: 'string', describe: 'a ledger file (DuckDB; created when absent): record this delivery in it and compare it with the one recorded before' })
+      .option('ledger', { type: 'string', describe: 'a ledger file (DuckDB; created when absent): record this delivery in it and compare it with the one recorded before (default: the ledger named in codeweir.json beside the codebook)' })
       .option('ledger-wait', LEDGER_WAIT_OPTION)
+      .option('previous', { type: 'string', describe: 'the delivery before this one: compare with it (without a ledger); with --split-by each team folder gets its changes' })
       .option('drift-p', DRIFT_P_OPTION)
       .option('drift-psi', DRIFT_PSI_OPTION)
       .option('min-cell', MIN_CELL_OPTION)
@@ -120,8 +121,9 @@ export const checkCommand: CommandDef = {
       .option('quiet', { type: 'boolean', default: false, describe: 'no progress on stderr' }),
   handler: async (args, io) => {
     const data = String(args.data);
-    // The ledger (and DuckDB) is loaded only with --ledger: without it the check runs exactly as before.
-    const season = args.ledger === undefined ? undefined : await ledgerSetup(args, io.cwd);
+    // The ledger (and DuckDB) is loaded only with --ledger, --previous or a ledger in the project file
+    // (codeweir.json beside the codebook): without them the check runs exactly as before.
+    const season = await checkSeason(args, io.cwd);
     const threads = threadsOption(args.threads);
     // Loaded here, not at the top, so that starting the CLI costs only the command it runs.
     const [{ loadCodebookOrThrow }, { openDelivery }, { checkDelivery, checkFile, normalizeCheckOptions, writeCheckOutputs }] = await Promise.all([
@@ -180,7 +182,7 @@ export const checkCommand: CommandDef = {
     result.summary.accepted = exit === 0;
     if (args.out !== undefined) await writeCheckOutputs(result, resolve(io.cwd, String(args.out)), { splitBy, disclosure });
     const recorded = season === undefined ? undefined : await season.record(result, codebook, { io, data, dataPath, engine, input, options, splitBy, out: args.out });
-    if (args.json === true) io.stdout(JSON.stringify(recorded === undefined ? result.summary : { ...result.summary, ledger: recorded.json }, null, 2) + '\n');
+    if (args.json === true) io.stdout(JSON.stringify(recorded === undefined ? result.summary : { ...result.summary, [recorded.key]: recorded.json }, null, 2) + '\n');
     else {
       io.stdout(humanReport(result, data, failOnWarning));
       if (args.out !== undefined) io.stdout(`Findings log, missingness and summary written to ${String(args.out)}.\n`);
