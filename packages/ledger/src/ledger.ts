@@ -6,7 +6,7 @@
  * already in the ledger is recognised and not counted again.
  */
 import { mkdir, open, stat } from 'node:fs/promises';
-import { dirname } from 'node:path';
+import { dirname, join } from 'node:path';
 import { DuckDBInstance, listValue, type DuckDBConnection, type DuckDBValue } from '@duckdb/node-api';
 import { CodeweirError } from '@codeweir/core';
 import type { FindingRule } from '@codeweir/check';
@@ -118,13 +118,16 @@ export class Ledger {
    * Opens (and, unless read-only, creates and migrates) the ledger at `path`. When another
    * process holds the file, retries for up to `waitMs`.
    * Cost: one file open, and the migrations the file lacks. Throws CodeweirError:
-   * CW_WRITE_FAILED when the file stays locked by another run or cannot be created,
+   * CW_WRITE_FAILED when the file stays locked by another run or cannot be created, CW_FILE_IS_DIRECTORY
+ * for a folder,
    * CW_FILE_NOT_FOUND for a read-only open of a missing file, CW_FILE_UNREADABLE when the file is
    * not a DuckDB database, is not a ledger, or was written by a newer codeweir.
    */
   static async open(path: string, options: LedgerOptions = {}): Promise<Ledger> {
     const waitMs = options.waitMs ?? DEFAULT_LEDGER_WAIT_MS;
-    const exists = await stat(path).then((s) => s.isFile(), () => false);
+    const kind = await stat(path).then((s) => (s.isFile() ? 'file' : 'other'), () => 'none');
+    if (kind === 'other') throw new CodeweirError('CW_FILE_IS_DIRECTORY', `${path} is a folder, not a ledger file; name a file such as ${join(path, 'season.duckdb')}.`, { file: path });
+    const exists = kind === 'file';
     if (options.readOnly && !exists) throw new CodeweirError('CW_FILE_NOT_FOUND', `there is no ledger at ${path}; check a delivery with --ledger ${path} to start one.`, { file: path });
     if (!exists) await mkdir(dirname(path), { recursive: true }).catch(() => undefined);
     else if (!(await looksLikeDuckDb(path))) throw new CodeweirError('CW_FILE_UNREADABLE', `${path} is not a codeweir ledger (not a DuckDB database file).`, { file: path });

@@ -127,5 +127,6 @@ describe('Ledger', () => {
     await writeFile(text, 'hh,team\n1,2\n');
     await expect(Ledger.open(text)).rejects.toThrow(/is not a codeweir ledger \(not a DuckDB database file\)/);
     await expect(Ledger.open(join(dir, 'absent.duckdb'), { readOnly: true })).rejects.toMatchObject({ code: 'CW_FILE_NOT_FOUND' });
+    await expect(Ledger.open(dir)).rejects.toMatchObject({ code: 'CW_FILE_IS_DIRECTORY' });
   });
 });
