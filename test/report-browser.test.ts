@@ -169,6 +169,13 @@ describe('the demo report in headless Chromium at 1200 px', () => {
     expect(main.errors).toEqual([]);
     expect(main.requests).toEqual([main.url]);
     expect(await main.page.textContent('#verdict .badge')).toBe((check.summary.findings.bySeverity.error ?? 0) > 0 ? 'Not accepted' : 'Accepted');
+    // Every link inside a page leads somewhere on it (glossary, rules, teams, cards).
+    for (const file of [split.layout.main, split.files[1]!.path]) {
+      const { page } = await openFile(file);
+      const dangling = await page.$$eval('a[href^="#"]', (as) => as.map((a) => a.getAttribute('href')!.slice(1)).filter((id) => document.getElementById(id) === null));
+      expect(dangling, file).toEqual([]);
+      await page.close();
+    }
   });
 
   it('is under 15,000 px tall with the cards collapsed, and every card opens', async () => {

@@ -90,7 +90,10 @@ function particulars(ctx: Ctx, d: ItemDescription): string {
   const group = levelGroup(d);
   const withheld = particularWithheld(ctx, d);
   const conventions = particularConventions(ctx, d.conventions);
-  const see = `<p class="see">Conventions and the statistics withheld from ${esc(group)} items: <a href="#${withheldAnchor(group)}">glossary</a>.</p>`;
+  const shared = (ctx.glossary.withheld.get(group)?.size ?? 0) > 0;
+  const see = shared
+    ? `<p class="see">Conventions and the statistics withheld from ${esc(group)} items: <a href="#${withheldAnchor(group)}">glossary</a>.</p>`
+    : `<p class="see">Conventions: <a href="#conventions">glossary</a>.</p>`;
   return `${see}${withheld.length > 0 ? `<h4>Also withheld here</h4><ul class="plain withheld">${withheldLines(withheld)}</ul>` : ''}${
     conventions.length > 0 ? `<h4>Conventions of this item</h4><ul class="plain conventions">${conventionLines(conventions)}</ul>` : ''
   }`;

@@ -192,6 +192,10 @@ describe('item cards', () => {
     expect(glossary).toContain('<li><strong>median</strong>: nominal categories have no order</li>');
     expect(plain.split('nominal categories have no order').length - 1).toBe(1);
     expect(glossary).toContain('<li><strong>quantiles</strong>: Hyndman-Fan type 7</li>');
+    // Every in-page link of the report has its target.
+    const ids = new Set([...plain.matchAll(/\sid="([^"]+)"/g)].map((m) => m[1]));
+    const dangling = [...plain.matchAll(/href="#([^"]+)"/g)].map((m) => m[1]).filter((id) => !ids.has(id));
+    expect(dangling).toEqual([]);
   });
 
   it('collapses every card into a row of the item index with level, n, missing, invalid and a small chart', () => {
