@@ -42,15 +42,18 @@ export function missingnessSection(ctx: Ctx): string {
   const names = ctx.input.codebook.items.map((i) => i.name).filter((n) => summary.items[n] !== undefined);
   const kinds = KINDS.filter((k) => names.some((n) => (summary.items[n]!.missing[k] ?? 0) > 0));
   const whole = ctx.options.team?.whole.items;
+  // The percent (and the whole delivery's, on a team's page) first: a reader acts on those; the
+  // counts by kind follow for the detail.
+  const head = ['item', 'missing %', ...(whole ? ['all rows'] : []), 'missing', 'valid', 'invalid', ...kinds.map((k) => (k === 'invalid' ? 'invalid (declared code)' : k))];
   const byKind = table({
-    head: ['item', 'valid', 'invalid', ...kinds, 'missing', 'missing %', ...(whole ? ['all rows'] : [])],
-    numeric: [1, 2, ...kinds.map((_, i) => 3 + i), 3 + kinds.length, 4 + kinds.length, ...(whole ? [5 + kinds.length] : [])],
+    head,
+    numeric: head.map((_, i) => i).slice(1),
     rows: names.map((n) => {
       const t = summary.items[n]!;
       const mine = percentMissing(t);
       const all = whole?.[n] ? percentMissing(whole[n]!) : undefined;
       const shown = all !== undefined && mine - all >= 5 ? `<span class="worse">${pct(mine)}</span>` : pct(mine);
-      return [nameWithLabel(ctx, n), num(t.valid), num(t.invalid), ...kinds.map((k) => num(t.missing[k] ?? 0)), num(missingTotal(t)), shown, ...(whole ? [pct(all)] : [])];
+      return [nameWithLabel(ctx, n), shown, ...(whole ? [pct(all)] : []), num(missingTotal(t)), num(t.valid), num(t.invalid), ...kinds.map((k) => num(t.missing[k] ?? 0))];
     }),
     className: 'missing',
   });
