@@ -410,8 +410,12 @@ async function main(): Promise<void> {
     };
     await writeFileAtomic(args.json, JSON.stringify(doc, null, 2) + '\n');
   }
-  const disagree = Object.values(shapes).some((f) => f.agreement?.length);
-  if (disagree) process.exitCode = 1;
+  // A figure the lead may paste must come from a run where every command completed and agreed.
+  const failed = Object.entries(shapes).flatMap(([shape, f]) => Object.entries(f.tasks).filter(([, t]) => t.failed).map(([k]) => `${shape}/${k}`));
+  const disagree = Object.entries(shapes).filter(([, f]) => (f.agreement === null && want('check') && want('duckdb')) || f.agreement?.length).map(([shape]) => shape);
+  if (failed.length) process.stderr.write(`bench: ${failed.length} task(s) did not complete: ${failed.join(', ')}\n`);
+  if (disagree.length) process.stderr.write(`bench: agreement not shown for ${disagree.join(', ')} (disagreement, or check or the peer did not complete)\n`);
+  if (failed.length || disagree.length) process.exitCode = 1;
 }
 
 main().catch((e: unknown) => {
