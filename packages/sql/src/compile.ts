@@ -34,6 +34,11 @@ export interface SqlSource {
 export interface CompileSqlOptions extends CheckOptionsInput {
   dialect: DialectName;
   source: SqlSource;
+  /**
+   * A table already holding the classified cells (made from {@link CompiledSql.cells}): the four
+   * queries then read it instead of classifying every cell again each.
+   */
+  cellsTable?: string;
 }
 
 /** The compiled queries. Each is one complete statement (the shared CTE chain repeated). */
@@ -47,6 +52,8 @@ export interface CompiledSql {
   tallies: string;
   /** Fence quartiles (q1, q3) per interval or ratio item. */
   fences: string;
+  /** The classified cells, one row per record (the chain's last step), to keep in a table for {@link CompileSqlOptions.cellsTable}. */
+  cells: string;
   /** Group items by their position in the tallies' group key columns. */
   groupItems: string[];
   /** Item indices of the present items. */
@@ -424,6 +431,9 @@ export function compileCheckSql(codebook: CompiledCodebook, options: CompileSqlO
   const grouping = groupCols.map((g, k) => `GROUPING(${g}) AS cw_by${k}`);
   const tallies = `SELECT ${groupCols.length ? `${groupCols.join(', ')}, ${grouping.join(', ')}, ` : ''}item, cls, COUNT(*) AS n, SUM(spaced) AS spaced, MIN(cw_row) AS first_row FROM (${tallyRows.join('\nUNION ALL\n')}) cw_cells GROUP BY GROUPING SETS (${sets.join(', ')})`;
 
+  const cells = `WITH ${chain.join(',\n')}\nSELECT * FROM cw_final`;
+  // With a table of classified cells, the queries start from it.
+  if (options.cellsTable !== undefined) chain.splice(0, chain.length, `cw_final AS (SELECT * FROM ${options.cellsTable})`);
   const withAll = `WITH ${[...chain, fencesCte, findingsCte].join(',\n')}\n`;
   const cap = opts.maxFindingsPerRule;
   return {
@@ -432,6 +442,7 @@ export function compileCheckSql(codebook: CompiledCodebook, options: CompileSqlO
     counts: `${withAll}SELECT rule, item, severity, COUNT(*) AS n FROM cw_findings GROUP BY rule, item, severity ORDER BY rule, item`,
     tallies: `WITH ${chain.join(',\n')}\n${tallies}`,
     fences: `WITH ${[...chain, fencesCte].join(',\n')}\nSELECT item, q1, q3, n FROM cw_fences`,
+    cells,
     groupItems,
     present,
     header: hmap,

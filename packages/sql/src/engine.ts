@@ -318,7 +318,11 @@ export async function checkWithPostgres(table: string, codebook: CompiledCodeboo
     }
     const from = parts.map(ident).join('.');
     const source: SqlSource = { from, header, row: rowColumn === undefined ? undefined : ident(rowColumn) };
-    const compiled = compileCheckSql(codebook, { ...options, dialect: 'postgres', source });
+    // The cells are classified once into a temporary table (the session's own, dropped when it
+    // ends), and the four queries read that table: one pass over the delivery's table, not four.
+    const once = compileCheckSql(codebook, { ...options, dialect: 'postgres', source });
+    await query(`CREATE TEMPORARY TABLE cw_cells AS ${once.cells}`);
+    const compiled = compileCheckSql(codebook, { ...options, dialect: 'postgres', source, cellsTable: 'cw_cells' });
     return await resultFromSql(codebook, compiled, query, options, table);
   } finally {
     await client.end().catch(() => undefined);
