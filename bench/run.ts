@@ -381,6 +381,7 @@ async function main(): Promise<void> {
   if (targets.length) {
     report.push('\n### Targets\n');
     report.push(targetsTable(targets.filter((t) => t.shape !== 'all'), args.shapes, rows));
+    if (!args.big) report.push('\nPeak RSS <= 2 GiB at 10M rows: measured by `pnpm bench --big`.');
     if (lint) {
       const srcNote = lint.source.length ? `; from TypeScript source through tsx ${fmt(median(lint.source))} s = ${(median(lint.source) / median(lint.bare)).toFixed(1)}x` : '';
       report.push(

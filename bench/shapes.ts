@@ -104,12 +104,16 @@ function tokens(expr: string): Array<{ kind: 'num' | 'name' | 'op'; text: string
   return out;
 }
 
-/** The item names an expression reads. */
+/** The item names an expression of the subset reads, in first-use order. Cost: O(length). Throws outside the subset. */
 export function variablesOf(expr: string): string[] {
   return [...new Set(tokens(expr).filter((t) => t.kind === 'name').map((t) => t.text))];
 }
 
-/** The expression as DuckDB SQL over the peer's typed valid values. */
+/**
+ * The expression as DuckDB SQL over item names (the peer reads each as the item's valid value):
+ * CEL's ==, !=, && and || become =, <>, AND and OR, whose precedence is the same. Cost: O(length).
+ * Throws outside the subset.
+ */
 export function celToSql(expr: string): string {
   const op: Record<string, string> = { '==': '=', '!=': '<>', '&&': 'AND', '||': 'OR' };
   return tokens(expr)
@@ -472,11 +476,7 @@ function rulesShape(r: Rng): ShapeSpec {
 
 const BUILDERS: Record<Exclude<Shape, 'mixed'>, (r: Rng) => ShapeSpec> = { coded: codedShape, numeric: numericShape, text: textShape, rules: rulesShape };
 
-/** The codebook of a shape (the codebook contract), as written beside its delivery. */
-export function shapeCodebook(shape: Exclude<Shape, 'mixed'>): Record<string, unknown> {
-  return codebookOf(shape, BUILDERS[shape](seededRandom(1)));
-}
-
+/** The shape's codebook (the codebook contract), as written beside its delivery. */
 function codebookOf(shape: string, spec: ShapeSpec): Record<string, unknown> {
   return {
     codebook: `bench-${shape}`,
