@@ -245,6 +245,13 @@ describe('the demo report in headless Chromium at 1200 px', () => {
     await page.emulateMedia({ media: 'print' });
     expect(await hidden()).toBe(0);
     await page.emulateMedia({ media: 'screen' });
+    // A team's page printed on A4 (210 mm less 2 x 12 mm margins = 703 px at 96 px per inch):
+    // every table fits the width of the paper, opened cards and all.
+    const team = await openFile(split.files[1]!.path);
+    await team.page.setViewportSize({ width: 703, height: 1000 });
+    await team.page.emulateMedia({ media: 'print' });
+    expect(await team.page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(703);
+    await team.page.close();
   });
 
   it('gives each team page only that team’s rows, and the pages add up to the whole delivery', async () => {
