@@ -141,7 +141,7 @@ footer { color: var(--muted); font-size: 0.85rem; text-align: center; padding: 1
      a table's percentages (given in full elsewhere) are left off. */
   table.ct td, table.ct th, table.missing td, table.missing th, details.alt td, details.alt th { font-size: 7px; padding: 1px 3px 1px 0; }
   table.ct th, details.alt th { white-space: normal; }
-  td .sub, td .note { display: none; }
+  table.ct td .sub, details.alt td .note { display: none; }
   .index > .row, .index > details, .index.pairs > .row, .index.pairs > details { min-width: 0; }
   a { color: inherit; text-decoration: none; }
 }
