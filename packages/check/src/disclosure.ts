@@ -163,7 +163,9 @@ export function withholdFindings(findings: readonly Finding[], opts: DisclosureO
     if (opts.withholdIds && f.id !== '') g.id = WITHHELD_MARK;
     if (valueOut) {
       g.value = WITHHELD_MARK;
-      g.message = g.message.split(f.value).join(WITHHELD_MARK);
+      // Tukey fences come from the item's own values (its quartiles): withheld with them.
+      if (f.rule === 'outlier' || f.rule === 'extreme') g.message = `${WITHHELD_MARK} in ${f.item} is beyond the ${f.rule === 'extreme' ? 'outer' : 'inner'} Tukey fences (withheld: they come from the item's values).`;
+      else g.message = g.message.split(f.value).join(WITHHELD_MARK);
       if (g.suggestion !== undefined) g.suggestion = g.suggestion.split(f.value).join(WITHHELD_MARK);
     }
     return g;

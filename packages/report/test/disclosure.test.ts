@@ -80,6 +80,10 @@ suite('report disclosure: the rewritten input', () => {
     expect(income.withheld.values).toMatch(/confidential/);
     expect(input.check.findings.filter((f) => f.id !== '').every((f) => f.id === '[withheld]')).toBe(true);
     expect(input.check.findings.filter((f) => f.item === 'income' && f.value !== '').every((f) => f.value === '[withheld]')).toBe(true);
+    // The fences of an outlier come from income's quartiles: no number of income's is left in the messages.
+    const outliers = input.check.findings.filter((f) => f.item === 'income' && (f.rule === 'outlier' || f.rule === 'extreme'));
+    expect(outliers.length).toBeGreaterThan(0);
+    for (const f of outliers) expect(f.message).not.toMatch(/\d/);
     const scatter = input.describe.pairs.find((x) => x.kind === 'continuous-continuous');
     expect(scatter && 'sample' in scatter ? scatter.sample : undefined).toBeUndefined();
     expect(described.items.income!.max).toBeGreaterThan(0);
