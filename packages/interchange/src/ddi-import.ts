@@ -4,7 +4,7 @@
  * question text; `catgry` as codes, those with `missing="Y"` as missing codes (kind from
  * `@missType`, else read from the label and marked); `valrng/range` as `range`; `varFormat`
  * and `@intrvl`/`@dcml` for the type; `@nature` for the level; `@wgt="wgt"` for the weight;
- * `@measUnit` for the unit. The notes of our own type (`codeweir:...`) that `ddiFromCodebook`
+ * `@measUnit` for the unit; values an `invalrng` lists become missing codes (kind marked). The notes of our own type (`codeweir:...`) that `ddiFromCodebook`
  * writes are read back, so an exported codebook imports as itself. What had to be guessed is
  * marked as `codeweir draft` marks it; a `universe` in words (not routing we wrote) is left for
  * a person to turn into `askedWhen`.
@@ -255,6 +255,19 @@ export function codebookFromDdi(xml: string, file: string): ImportResult {
         if (l !== undefined) m.label = l;
         return m;
       });
+    }
+    // Some producers list missing values as invalid values (invalrng) rather than as categories.
+    const declared = new Set((Array.isArray(item.missing) ? (item.missing as Array<{ code: unknown }>) : []).map((m) => String(m.code)));
+    for (const inval of kids(v, 'invalrng')) {
+      for (const it of kids(inval, 'item')) {
+        const value = attr(it, 'VALUE');
+        if (value === undefined || declared.has(value) || typeof item.missing === 'string') continue;
+        declared.add(value);
+        const list = (Array.isArray(item.missing) ? item.missing : (item.missing = [])) as Array<Record<string, unknown>>;
+        list.push({ code: typed(value), kind: 'omitted' });
+        guesses.add(name, 'missing', { code: value, kind: 'omitted' }, `invalrng lists ${value} as an invalid value, with no label to read a kind from; omitted is a placeholder`, `missing code ${value} from invalrng: kind unknown, set to omitted`);
+      }
+      if (kids(inval, 'range').length > 0) notes.push(`var ${name}: an invalrng range was not read; a codebook lists missing codes one by one.`);
     }
     const asked = vnotes.get(NOTE.askedWhen);
     if (asked !== undefined) item.askedWhen = asked;

@@ -164,6 +164,7 @@ describe('DDI-Codebook 2.5 import', () => {
     </var>
     <var ID="V3" name="wt" wgt="wgt" dcml="4" nature="ratio">
       <labl>Design weight</labl>
+      <invalrng><item VALUE="-1"/></invalrng>
       <varFormat type="numeric"/>
     </var>
   </dataDscr>
@@ -182,9 +183,11 @@ describe('DDI-Codebook 2.5 import', () => {
     expect(km.missing).toEqual([{ code: -7, kind: 'not-applicable', label: 'Not applicable' }]);
     expect(km.askedWhen).toBeUndefined();
     expect(wt).toMatchObject({ role: 'weight', type: 'decimal', level: 'ratio' });
+    // A value listed in invalrng is a missing code whose kind a person must give.
+    expect(wt.missing).toEqual([{ code: -1, kind: 'omitted' }]);
     // Every guess is listed for a person and marked in the label.
     expect(r.guesses.map((g) => `${g.item}:${g.field}`)).toEqual([
-      'sat_water:type', 'sat_water:missing', 'water_km:type', 'water_km:level', 'water_km:missing', 'water_km:askedWhen', 'wt:type', ':languages',
+      'sat_water:type', 'sat_water:missing', 'water_km:type', 'water_km:level', 'water_km:missing', 'water_km:askedWhen', 'wt:type', 'wt:missing', ':languages',
     ]);
     expect(km.label).toBe('Distance to the water point [check: type decimal guessed; level ratio guessed; missing code -7 taken as not-applicable; universe in words: routing to write]');
     // With the guesses still marked the codebook lints; lint names the untranslated labels.
