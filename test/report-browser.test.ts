@@ -122,9 +122,10 @@ describe('report in headless Chromium', () => {
 /** Every table cell (and index-row cell) that holds a number or a code, with its text's height in lines. */
 async function figureCells(page: Page) {
   return page.evaluate(() => {
-    // A number as the report writes it (digit groups, decimals, percent, a range or ratio of
-    // numbers, `< 0.001`), or a dash for none; a code is a cell whose text is all in <code>.
-    const NUMBER = /^(?:[<>≥] ?)?[-+]?(?:\d[\d,]*(?:\.\d+)?%?|-|\d{4}-\d{2}-\d{2})(?:(?: to | days|\s*\(\d[\d,]*\/\d[\d,]*\)|\s+\d+(?:\.\d+)?%)?)$/;
+    // A number as the report writes it: digit groups, decimals, percents, dates, `< 0.001`, and
+    // cells of several (`19.25 to 61.25`, `12 3.1%`, `0.0% (0/386)`, `101, 92, 91`, `10 days`),
+    // or a dash for none. A code is a cell whose text is all in <code>.
+    const isFigure = (text: string) => text === '-' || /^[<>≥]? ?[-+]?\d[\d\s.,%()\/+e-]*$/.test(text.replace(/ to | days$/g, ' '));
     const cells = [...document.querySelectorAll('td, th, .index .row > span')] as HTMLElement[];
     const out: Array<{ text: string; lines: number; kind: string }> = [];
     for (const cell of cells) {
@@ -132,7 +133,7 @@ async function figureCells(page: Page) {
       if (text === '' || cell.getClientRects().length === 0) continue;
       const codes = [...cell.querySelectorAll('code')].map((c) => c.textContent ?? '').join('');
       const isCode = codes !== '' && codes.replace(/\s/g, '') === text.replace(/\s/g, '');
-      const isNumber = NUMBER.test(text);
+      const isNumber = isFigure(text);
       if (!isCode && !isNumber) continue;
       const range = document.createRange();
       range.selectNodeContents(cell);
@@ -213,6 +214,11 @@ describe('the demo report in headless Chromium at 1200 px', () => {
       // A cell's text on one line is one line height tall (within rounding).
       const broken = cells.filter((c) => c.lines > 1.5);
       expect(broken).toEqual([]);
+      // Labels may wrap, but only between words: no cell may break inside a word or hyphenate.
+      const breakable = await page.$$eval('td, th, .index .row > span', (els) =>
+        els.map((e) => getComputedStyle(e)).filter((st) => st.overflowWrap !== 'normal' || st.wordBreak !== 'normal' || (st.hyphens !== 'none' && st.hyphens !== 'manual')).length,
+      );
+      expect(breakable).toBe(0);
     }
     // The measure itself: squeezed columns that may break anywhere do show as cells on several lines.
     const page = pages[0]!;
