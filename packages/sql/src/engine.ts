@@ -5,6 +5,9 @@
  * that the built-in `finalize` completes (header and item-level findings, sorting, caps,
  * summary), and the fence quartiles computed by the engine fill `summary.fences`.
  */
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { CodeweirError } from '@codeweir/core';
 import type { CompiledCodebook } from '@codeweir/codebook';
 import { finalize, KINDS, normalizeCheckOptions, RULE_NUMBER, RULE_ORDER, rules, SLOTS, type CheckOptionsInput, type CheckResult, type Finding, type FindingRule, type FindingSeverity, type PartialResult } from '@codeweir/check';
@@ -181,6 +184,9 @@ export async function resultFromSql(codebook: CompiledCodebook, compiled: Compil
 // ---------------------------------------------------------------------------------------------
 // DuckDB
 
+/** DuckDB's memory cap for a check: beyond it, tables and intermediate results go to a temporary folder. */
+const MEMORY_LIMIT = '1GB';
+
 const DUCKDB_ENCODINGS: Record<string, string> = { 'utf-8': 'utf-8', latin1: 'latin-1', 'utf-16le': 'utf-16' };
 
 function deliveredOf(duckType: string): DeliveredType {
@@ -209,7 +215,10 @@ export async function checkWithDuckDb(path: string, codebook: CompiledCodebook, 
   const f = formatOf(path, format);
   if (f === 'xlsx') throw new CodeweirError('CW_USAGE', `--engine duckdb reads CSV, csv.gz and Parquet files; check the workbook ${path} with the built-in engine.`);
   const { DuckDBInstance } = await import('@duckdb/node-api');
-  const db = await DuckDBInstance.create(':memory:');
+  // Memory is capped; beyond the cap DuckDB moves the loaded rows and the classified cells to a
+  // temporary folder (removed afterwards), so a large delivery does not take the machine's memory.
+  const work = await mkdtemp(join(tmpdir(), 'codeweir-duckdb-'));
+  const db = await DuckDBInstance.create(':memory:', { memory_limit: MEMORY_LIMIT, temp_directory: work });
   const con = await db.connect();
   const query: RunQuery = async (sql) => {
     try {
@@ -260,13 +269,19 @@ export async function checkWithDuckDb(path: string, codebook: CompiledCodebook, 
         nullIsAbsent: true,
       };
     }
-    const compiled = compileCheckSql(codebook, { ...options, dialect: 'duckdb', source });
+    // The cells are classified once into a temporary table that the four queries read: without it,
+    // each branch of the queries' unions would classify every cell again.
+    const once = compileCheckSql(codebook, { ...options, dialect: 'duckdb', source });
+    await query(`CREATE TABLE cw_cells AS ${once.cells}`);
+    await query('DROP TABLE IF EXISTS cw_delivery');
+    const compiled = compileCheckSql(codebook, { ...options, dialect: 'duckdb', source, cellsTable: 'cw_cells' });
     const result = await resultFromSql(codebook, compiled, query, options, path);
     if (notes.length > 0) result.summary.header.typeNotes = notes;
     return result;
   } finally {
     con.closeSync();
     db.closeSync();
+    await rm(work, { recursive: true, force: true });
   }
 }
 
