@@ -11,7 +11,6 @@ import { lineColumn, scanJson } from './json-scan.ts';
 import { ajvErrorsToProblems, zodIssuesToProblems } from './schema-problems.ts';
 import { analyseCodebook } from './checks/index.ts';
 import { buildCompiled, type CompileOptions } from './compile.ts';
-import { codebookLanguages } from './labels.ts';
 
 /** How a codebook is loaded. */
 export interface LoadOptions extends CompileOptions {
@@ -153,7 +152,8 @@ export async function loadCodebook(path: string, options: LoadOptions = {}): Pro
 export async function loadCodebookOrThrow(path: string, options: LoadOptions = {}): Promise<CompiledCodebook> {
   const r = await loadCodebook(path, options);
   if (r.ok) {
-    const langs = codebookLanguages(r.codebook.source as Parameters<typeof codebookLanguages>[0]);
+    // The languages of the codebook as written (its compiled source is resolved to one language).
+    const langs = r.codebook.languages ?? [];
     const lang = options.lang;
     if (lang !== undefined && langs.length > 0 && !langs.some((l) => l.toLowerCase() === lang.toLowerCase())) {
       throw new CodeweirError('CW_USAGE', `--lang ${lang}: codebook ${path} gives its labels in ${langs.join(', ')}; choose one of those.`, { file: path });

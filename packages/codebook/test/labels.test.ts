@@ -68,6 +68,27 @@ describe('multilingual labels', () => {
     expect(labelText('same', 'fr')).toBe('same');
   });
 
+  it('--lang must be one of the languages of the labels, declared or not (exit 2)', async () => {
+    const { mkdtemp, writeFile, rm } = await import('node:fs/promises');
+    const { tmpdir } = await import('node:os');
+    const { join } = await import('node:path');
+    const { loadCodebookOrThrow } = await import('../src/index.ts');
+    const dir = await mkdtemp(join(tmpdir(), 'codeweir-lang-'));
+    try {
+      const cb = bilingual();
+      delete cb.languages;
+      const file = join(dir, 'cb.json');
+      await writeFile(file, JSON.stringify(cb));
+      expect((await loadCodebookOrThrow(file, { lang: 'fr' })).byName.get('hh_size')!.label).toBe('Personnes du ménage');
+      await expect(loadCodebookOrThrow(file, { lang: 'de' })).rejects.toMatchObject({ code: 'CW_USAGE', exitCode: 2 });
+      await writeFile(file, JSON.stringify(household()));
+      // Labels that are all plain strings are the same in every language: any tag is accepted.
+      expect((await loadCodebookOrThrow(file, { lang: 'de' })).language).toBeUndefined();
+    } finally {
+      await rm(dir, { recursive: true, force: true });
+    }
+  });
+
   it('languages are the declared ones, else those found in label objects', () => {
     const cb = bilingual() as Codebook;
     expect(codebookLanguages(cb)).toEqual(['en', 'fr']);
