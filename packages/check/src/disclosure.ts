@@ -10,7 +10,9 @@
  * totals are the group sizes and whose column totals are the overall counts, with the delivery's
  * rows as the grand total (published everywhere, never suppressed); group sizes below k are
  * suppressed once for all items, and an overall count suppressed for one group item is
- * suppressed for the others too, until nothing changes. The `missing` and `percent_missing` of
+ * suppressed for the others too, until nothing changes. Invalid counts can be read off the
+ * findings (which go out with the team folders), so invalid cells are the last choice of
+ * complement. The `missing` and `percent_missing` of
  * every line of an item with any suppressed count are suppressed too: they add up across groups
  * like the cells, and where valid and invalid are shown they say nothing the rows do not.
  */
@@ -50,6 +52,9 @@ export interface MissingnessSuppression {
   unprotected: number;
 }
 
+/** The column of a tally line that the findings publish cell by cell: invalid (column 1). */
+const INVALID_COLUMN = (width: number): boolean[] => Array.from({ length: width }, (_, j) => j === 1);
+
 /** The counted cells of a tally line, in column order (valid, invalid, KINDS). */
 export function tallyCells(t: GroupItemTally): number[] {
   return [t.valid, t.invalid, ...KINDS.map((k) => t.missing[k] ?? 0)];
@@ -76,7 +81,7 @@ export function missingnessSuppression(result: CheckResult, minCell: number): Mi
   }
   if (groups.length === 0) {
     for (const [name, t] of items) {
-      const s = suppressCells([tallyCells(t)], minCell, { rows: 'fixed', columns: 'hidden' });
+      const s = suppressCells([tallyCells(t)], minCell, { rows: 'fixed', columns: 'hidden' }, { avoid: [INVALID_COLUMN(width)] });
       if (!s.protected) out.unprotected++;
       out.overall.set(name, { cells: s.cells[0]!, rows: 0 });
     }
@@ -97,6 +102,7 @@ export function missingnessSuppression(result: CheckResult, minCell: number): Mi
         const key = `${g}\u0000${name}`;
         const s = suppressCells(table, minCell, { rows: rowMargins, columns: 'shown', grand: 'fixed' }, {
           cells: cellPreset.get(key),
+          avoid: table.map(() => INVALID_COLUMN(width)),
           rowTotals: sizes.map((st) => st !== 0),
           columnTotals: overallPreset.get(name),
         });

@@ -33,6 +33,8 @@ export interface SuppressionMargins {
 /** Cells already suppressed elsewhere (another table sharing them): suppressed here from the start. */
 export interface SuppressionPreset {
   cells?: ReadonlyArray<ReadonlyArray<boolean>>;
+  /** Inner cells to use as complements only after every other inner cell (their values may be known from elsewhere). */
+  avoid?: ReadonlyArray<ReadonlyArray<boolean>>;
   rowTotals?: readonly boolean[];
   columnTotals?: readonly boolean[];
 }
@@ -168,7 +170,7 @@ export function suppressCells(table: readonly (readonly number[])[], minCell: nu
     const how = shownAs(i, j);
     if (how === 'fixed' || v === 0) return Number.POSITIVE_INFINITY;
     // Inner cells by their count; margins after every inner cell.
-    return i < m && j < n ? v : 1e12 + v;
+    return i < m && j < n ? (preset.avoid?.[i]?.[j] ? 1e9 + v : v) : 1e12 + v;
   };
   for (;;) {
     const edges: Array<readonly [number, number]> = [];
