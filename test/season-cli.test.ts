@@ -271,6 +271,16 @@ describe('report --previous / --ledger', () => {
     expect(await readFile(join(dir, 'plain.html'), 'utf8')).not.toMatch(/id="season"/);
   });
 
+  it('with --split-by each team page shows its own records and trend', async () => {
+    const r = await cli(['report', 'week2.csv', '--codebook', 'cb.json', '-o', 'split/rep.html', '--previous', 'week1.csv', '--split-by', 'team', '--threads', '1'], dir);
+    expect(r.code, r.err).toBe(0);
+    const c = JSON.parse((await cli(['compare', 'week1.csv', 'week2.csv', '--codebook', 'cb.json', '--group', 'team', '--json', '--threads', '1'], dir)).out);
+    const page = await readFile(join(dir, 'split', 'rep-team', 'team-2.html'), 'utf8');
+    const g = c.groups['2'].records;
+    expect(page).toContain(`Records of this team: <strong>${g.added}</strong> added, <strong>${g.removed}</strong> removed, <strong>${g.changed}</strong> changed.`);
+    expect(page.match(/<section id="season"[^]*?<\/section>/)![0]).toMatch(/<svg/);
+  });
+
   it('with a ledger: the delivery recorded before this one, the trend over the season', async () => {
     // The ledger of the test above holds weeks 1 to 3; week 3 is in it, so week 2 is its previous.
     const r = await cli(['report', 'week3.csv', '--codebook', 'cb.json', '-o', 'rep3.html', '--ledger', 'season.duckdb', '--threads', '1'], dir);

@@ -100,7 +100,8 @@ function trendChart(title: string, description: string, deliveries: readonly str
  */
 export function seasonSection(ctx: Ctx): string {
   const s = ctx.input.season;
-  if (s === undefined || ctx.options.team) return '';
+  if (s === undefined) return '';
+  if (ctx.options.team) return teamSeason(ctx, s, ctx.options.team.group, ctx.options.team.code);
   const parts: string[] = [];
   const prev = s.previous;
   parts.push(`<p>Compared with ${prev.delivery !== undefined ? `delivery ${prev.delivery}, ` : ''}<code>${esc(prev.file)}</code> (${formatNumber(prev.rows)} rows${prev.checkedAt ? `, checked ${esc(prev.checkedAt)}` : ''}).</p>`);
@@ -156,4 +157,23 @@ export function seasonSection(ctx: Ctx): string {
     }
   }
   return `<section id="season" class="block"><h2>Since the previous delivery</h2>\n${parts.join('\n')}</section>`;
+}
+
+/**
+ * On a field team's own page: the team's records added, removed and changed, its missing share
+ * and error cells before and after, and its own trend across the season ('' when the season was
+ * compared by another group item or the team is not in it).
+ */
+function teamSeason(ctx: Ctx, s: SeasonInput, group: string, code: string): string {
+  const g = s.groups[code];
+  if (s.groupItem !== group || g === undefined) return '';
+  const rec = g.records ? `<p>Records of this ${esc(group)}: <strong>${formatNumber(g.records.added)}</strong> added, <strong>${formatNumber(g.records.removed)}</strong> removed, <strong>${formatNumber(g.records.changed)}</strong> changed.</p>` : '';
+  const rows = [[before(g.rows, 0), before(g.missingPercent), before(g.errors, 0)]];
+  const t = s.trend;
+  const mine = t?.groups[code];
+  const chart = t && mine && t.deliveries.length >= 2
+    ? figure(ctx, trendChart(`% missing in ${code}, delivery by delivery`, `The share of this ${group}'s cells that are missing, deliveries 1 to ${t.deliveries.length} along.`, t.deliveries, { [code]: mine }, 'missingPercent'), `Deliveries: ${t.deliveries.map((d, i) => `${i + 1}: ${d}`).join('; ')}.`)
+    : '';
+  return `<section id="season" class="block"><h2>Since the previous delivery</h2>
+<p>Compared with <code>${esc(s.previous.file)}</code>.</p>${rec}${table({ head: ['rows before → now', '% missing before → now', 'error cells before → now'], rows, numeric: [0, 1, 2] })}${chart}</section>`;
 }
