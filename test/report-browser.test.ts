@@ -260,6 +260,20 @@ describe('the demo report in headless Chromium at 1200 px', () => {
     await team.page.close();
   });
 
+  it('prints the main report on A4 in portrait: every visible table fits the paper, the district x team cross table too', async () => {
+    const { page } = await openFile(split.layout.main);
+    await page.emulateMedia({ media: 'print' });
+    // A4 less 2 x 12 mm margins at 96 px per inch: 703 px.
+    await page.setViewportSize({ width: 703, height: 1000 });
+    const overflowing = await page.$$eval('table', (ts) =>
+      ts.filter((t) => (t as HTMLElement).checkVisibility() && t.getBoundingClientRect().right > 703.5).map((t) => t.className),
+    );
+    expect(overflowing).toEqual([]);
+    // The widest table of the demo: district x team, 12 team columns with long labels.
+    expect(await page.$$eval('table.ct', (ts) => Math.max(...ts.map((t) => t.querySelectorAll('thead th').length)))).toBeGreaterThanOrEqual(14);
+    await page.close();
+  });
+
   it('gives each team page only that team’s rows, and the pages add up to the whole delivery', async () => {
     const team = check.store.columns.team!;
     expect(team.kind).toBe('coded');

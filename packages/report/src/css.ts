@@ -140,7 +140,8 @@ footer { color: var(--muted); font-size: 0.85rem; text-align: center; padding: 1
   /* Paper does not scroll: wide tables get small type and tight cells, and the counts behind
      a table's percentages (given in full elsewhere) are left off. */
   table.ct td, table.ct th, table.missing td, table.missing th, details.alt td, details.alt th { font-size: 7px; padding: 1px 3px 1px 0; }
-  table.ct th, details.alt th { white-space: normal; }
+  /* Column headings are category labels: on paper they wrap between words (the figures below do not). */
+  table.ct th, table.ct th.num, .index table.ct th.num, details.alt th, details.alt th.num, .index details.alt th.num { white-space: normal; }
   table.ct td .sub, details.alt td .note { display: none; }
   .index > .row, .index > details, .index.pairs > .row, .index.pairs > details { min-width: 0; }
   a { color: inherit; text-decoration: none; }
