@@ -84,7 +84,7 @@ export const missingCodes: CodebookCheck = {
           ctx.report(
             'missing-in-range',
             at(j),
-            `missing code ${JSON.stringify(m.code)} (${m.kind})${from} of item "${it.name}" lies inside its range ${r.min ?? '-inf'} to ${r.max ?? 'inf'}: a cell ${JSON.stringify(String(m.code))} is read as that missing code, never as a value`,
+            `missing code ${JSON.stringify(m.code)} (${m.kind})${from} of item "${it.name}" lies inside its range ${rangeText(r.min, r.max)}: a cell ${JSON.stringify(String(m.code))} is read as that missing code, never as a value`,
           );
         }
       });
@@ -94,3 +94,11 @@ export const missingCodes: CodebookCheck = {
     }
   },
 };
+
+/** A range in words: "0 to 20", "0 or more", "20 or less". */
+function rangeText(min: number | undefined, max: number | undefined): string {
+  if (min !== undefined && max !== undefined) return `${min} to ${max}`;
+  if (min !== undefined) return `${min} or more`;
+  if (max !== undefined) return `${max} or less`;
+  return 'with no bounds';
+}
