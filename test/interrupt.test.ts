@@ -6,32 +6,18 @@
  * every user may read: the checkout itself may lie under a folder another user cannot enter.
  */
 import { describe, it, expect, beforeAll } from 'vitest';
-import { spawn } from 'node:child_process';
-import { mkdtemp, writeFile, readFile, readdir, readlink, chmod, open } from 'node:fs/promises';
+import { mkdtemp, writeFile, readFile, readdir, chmod, open } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { corpusCodebook, cleanRows, seeded, toCsv, HEADER } from './adversarial/corpus.ts';
 import { buildBundle } from '../scripts/bundle.ts';
+import { startNode, waitUntilOpen } from './support/process.ts';
 
 let bin = '';
 
+/** The built CLI in the test folder, as the user `opts` names (the current one by default). */
 function start(args: string[], opts: { uid?: number; gid?: number } = {}) {
-  const child = spawn(process.execPath, [bin, ...args], { cwd: dir, stdio: ['ignore', 'pipe', 'pipe'], ...opts });
-  let stdout = '';
-  let stderr = '';
-  child.stdout.on('data', (d) => (stdout += d));
-  child.stderr.on('data', (d) => (stderr += d));
-  const done = new Promise<{ code: number | null; signal: NodeJS.Signals | null; stdout: string; stderr: string }>((res) =>
-    child.on('close', (code, signal) => res({ code, signal, stdout, stderr })),
-  );
-  return { child, done };
-}
-
-/** Whether `pid` holds `file` open right now (Linux /proc): the reader keeps the file open until its last row. */
-async function holdsOpen(pid: number, file: string): Promise<boolean> {
-  const fds = await readdir(`/proc/${pid}/fd`).catch(() => [] as string[]);
-  for (const fd of fds) if ((await readlink(`/proc/${pid}/fd/${fd}`).catch(() => '')) === file) return true;
-  return false;
+  return startNode([bin, ...args], { cwd: dir, ...opts });
 }
 
 let dir: string;
@@ -66,12 +52,7 @@ describe('interrupted and unreadable', () => {
     const run = start(['check', big, '--codebook', codebook, '--out', out, '--quiet']);
     // Wait until the process has opened the delivery (it reads with positioned reads and
     // closes the file after the last row), then interrupt while it is still open: mid-file.
-    let isOpen = false;
-    for (let i = 0; i < 4000 && !isOpen; i++) {
-      isOpen = await holdsOpen(run.child.pid!, big);
-      if (!isOpen) await new Promise((r) => setTimeout(r, 5));
-    }
-    expect(isOpen, 'the run was caught while reading the file').toBe(true);
+    expect(await waitUntilOpen(run.child.pid!, big, 4000), 'the run was caught while reading the file').toBe(true);
     run.child.kill('SIGINT');
     const r = await run.done;
     expect(r.code).toBe(130);

@@ -5,12 +5,12 @@
  * its --ledger-wait stops with one sentence and leaves the ledger as it was.
  */
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { spawn } from 'node:child_process';
-import { mkdtemp, rm, writeFile, readdir, readlink, open } from 'node:fs/promises';
+import { mkdtemp, rm, writeFile, open } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { basename, join, resolve } from 'node:path';
 import { DuckDBInstance } from '@duckdb/node-api';
 import { Ledger } from '../packages/ledger/src/index.ts';
+import { startNode, waitUntilOpen } from './support/process.ts';
 
 const repo = resolve(import.meta.dirname, '..');
 const bin = join(repo, 'packages/cli/src/bin.ts');
@@ -18,20 +18,7 @@ const bin = join(repo, 'packages/cli/src/bin.ts');
 /** Runs the CLI from source (tsx resolves from the repository); file names are taken inside the test folder. */
 function start(args: string[]) {
   const inDir = args.map((a) => (/\.(csv|json)$/.test(a) ? join(dir, a) : a));
-  const child = spawn(process.execPath, ['--conditions=source', '--import', 'tsx', bin, ...inDir], { cwd: repo, stdio: ['ignore', 'pipe', 'pipe'] });
-  let stdout = '';
-  let stderr = '';
-  child.stdout.on('data', (d) => (stdout += d));
-  child.stderr.on('data', (d) => (stderr += d));
-  const done = new Promise<{ code: number | null; stdout: string; stderr: string }>((res) => child.on('close', (code) => res({ code, stdout, stderr })));
-  return { child, done };
-}
-
-/** Whether `pid` holds `file` open right now (Linux /proc). */
-async function holdsOpen(pid: number, file: string): Promise<boolean> {
-  const fds = await readdir(`/proc/${pid}/fd`).catch(() => [] as string[]);
-  for (const fd of fds) if ((await readlink(`/proc/${pid}/fd/${fd}`).catch(() => '')) === file) return true;
-  return false;
+  return startNode(['--conditions=source', '--import', 'tsx', bin, ...inDir], { cwd: repo });
 }
 
 const codebook = {
@@ -91,12 +78,7 @@ describe('the ledger across processes', () => {
 
     const run = start(['check', 'big.csv', '--codebook', 'cb.json', '--ledger', ledger, '--threads', '1']);
     // The ledger file is opened only after the check, for the write: catch the run holding it.
-    let isOpen = false;
-    for (let i = 0; i < 6000 && !isOpen; i++) {
-      isOpen = await holdsOpen(run.child.pid!, ledger);
-      if (!isOpen) await new Promise((r) => setTimeout(r, 5));
-    }
-    expect(isOpen, 'the run was caught while it held the ledger').toBe(true);
+    expect(await waitUntilOpen(run.child.pid!, ledger, 6000), 'the run was caught while it held the ledger').toBe(true);
     run.child.kill('SIGINT');
     const r = await run.done;
     expect(r.code).toBe(130);
