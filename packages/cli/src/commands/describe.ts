@@ -140,10 +140,7 @@ export const describeCommand: CommandDef = {
       .option('pairs', { type: 'string', describe: "'all' to summarise every pair of described items" })
       .option('listwise', { type: 'boolean', describe: 'pairs use only rows valid on every item of every requested pair' })
       .option('weight', { type: 'string', describe: "weight item (default: the codebook's weight item)" })
-      .option('strata', { type: 'string', describe: "strata item of the sample design (default: the codebook's design)" })
-      .option('cluster', { type: 'string', describe: "cluster (primary sampling unit) item of the sample design" })
-      .option('fpc', { type: 'string', describe: 'finite population correction item: population count of clusters per stratum, or sampling fraction' })
-      .option('by', { type: 'string', describe: 'a group item: design-based estimates in each of its codes (domains)' })
+      .options(DESIGN_OPTIONS)
       .option('quantiles', { type: 'string', describe: 'Hyndman-Fan quantile type, 1 to 9 (default 7)' })
       .option('percentiles', { type: 'string', describe: 'extra percentiles, e.g. 10,90' })
       .option('delimiter', { type: 'string', describe: 'field delimiter (detected when absent)' })
@@ -193,6 +190,14 @@ export const describeCommand: CommandDef = {
     return 0;
   },
 };
+
+/** The sample design options of describe and report (`--weight` is declared by each command). */
+export const DESIGN_OPTIONS = {
+  strata: { type: 'string', describe: "strata item of the sample design (default: the codebook's design)" },
+  cluster: { type: 'string', describe: 'cluster (primary sampling unit) item of the sample design' },
+  fpc: { type: 'string', describe: 'finite population correction item: population count of clusters per stratum, or sampling fraction' },
+  by: { type: 'string', describe: 'a group item: design-based estimates in each of its codes (domains)' },
+} as const;
 
 /** The design options given (only those, so a run without them normalises as before). */
 export function designArgs(args: Record<string, unknown>): Record<string, unknown> {

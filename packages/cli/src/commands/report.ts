@@ -9,7 +9,7 @@ import { LANG_OPTION, langOption } from '../lang.ts';
 import { createProgress, type Progress } from '../progress.ts';
 import { LEDGER_WAIT_OPTION, DRIFT_P_OPTION, DRIFT_PSI_OPTION, reportSeasonOptions, seasonForReport } from '../season.ts';
 import { MIN_CELL_OPTION, SHOW_VALUES_OPTION, disclosureChoice } from '../disclosure.ts';
-import { designArgs } from './describe.ts';
+import { DESIGN_OPTIONS, designArgs } from './describe.ts';
 
 /** Counts rows as the one pass reads them, for the progress line. */
 function counted(d: Delivery, progress: Progress): Delivery {
@@ -59,10 +59,7 @@ export const reportCommand: CommandDef = {
       .option('ledger-wait', LEDGER_WAIT_OPTION)
       .option('drift-p', DRIFT_P_OPTION)
       .option('drift-psi', DRIFT_PSI_OPTION)
-      .option('strata', { type: 'string', describe: "strata item of the sample design (default: the codebook's design)" })
-      .option('cluster', { type: 'string', describe: 'cluster (primary sampling unit) item of the sample design' })
-      .option('fpc', { type: 'string', describe: 'finite population correction item: population count of clusters per stratum, or sampling fraction' })
-      .option('by', { type: 'string', describe: 'a group item: design-based estimates in each of its codes (domains)' })
+      .options(DESIGN_OPTIONS)
       .option('min-cell', MIN_CELL_OPTION)
       .option('show-values', SHOW_VALUES_OPTION)
       .option('quiet', { type: 'boolean', default: false, describe: 'no progress on stderr' }),
