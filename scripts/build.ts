@@ -14,7 +14,7 @@ import { cpSync, existsSync, mkdirSync, readdirSync, readFileSync, rmSync, statS
 import { createRequire } from 'node:module';
 import { join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { buildBundle, BUNDLE_DIR } from './bundle.ts';
+import { buildBundle, BUNDLE_DIR, newestSource } from './bundle.ts';
 
 const ROOT = resolve(fileURLToPath(new URL('..', import.meta.url)));
 const OUT = join(ROOT, '.build');
@@ -66,25 +66,13 @@ export async function buildAll(strict = false): Promise<void> {
   await buildBundle(true, BUNDLE_DIR);
 }
 
-/** Newest modification time of the TypeScript and JSON files under `dir` (tests and node_modules aside). */
-function newest(dir: string): number {
-  let t = 0;
-  for (const e of readdirSync(dir, { withFileTypes: true })) {
-    if (e.name === 'node_modules' || e.name === 'test' || e.name === 'dist') continue;
-    const p = join(dir, e.name);
-    if (e.isDirectory()) t = Math.max(t, newest(p));
-    else if (e.name.endsWith('.ts') || e.name.endsWith('.json')) t = Math.max(t, statSync(p).mtimeMs);
-  }
-  return t;
-}
-
 /** Whether a package has no dist/ yet or a source file is newer than the CLI bundle (built last). */
 export function buildIsStale(): boolean {
   const bundle = join(BUNDLE_DIR, 'codeweir.mjs');
   if (!existsSync(bundle)) return true;
   for (const name of readdirSync(join(ROOT, 'packages')))
     if (existsSync(join(ROOT, 'packages', name, 'src')) && !existsSync(join(ROOT, 'packages', name, 'dist'))) return true;
-  return newest(join(ROOT, 'packages')) > statSync(bundle).mtimeMs;
+  return newestSource(join(ROOT, 'packages')) > statSync(bundle).mtimeMs;
 }
 
 if (process.argv[1] && resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {

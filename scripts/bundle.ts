@@ -29,10 +29,11 @@ export const WORKER_BUNDLE = join(BUNDLE_DIR, 'check-worker.mjs');
  */
 export const BUNDLE_EXTERNAL: readonly string[] = ['@duckdb/node-api'];
 
-function newestSource(dir: string): number {
+/** Newest modification time of the TypeScript and JSON sources under `dir` (tests, node_modules and built dist/ aside). */
+export function newestSource(dir: string): number {
   let newest = 0;
   for (const e of readdirSync(dir, { withFileTypes: true })) {
-    if (e.name === 'node_modules' || e.name === 'test') continue;
+    if (e.name === 'node_modules' || e.name === 'test' || e.name === 'dist') continue;
     const p = join(dir, e.name);
     if (e.isDirectory()) newest = Math.max(newest, newestSource(p));
     else if (e.name.endsWith('.ts') || e.name.endsWith('.json')) newest = Math.max(newest, statSync(p).mtimeMs);
