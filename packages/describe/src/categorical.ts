@@ -14,8 +14,11 @@ export interface Category {
 /** Input of the categorical summary: the categories and each row's category (or -1). */
 export interface CategoricalInput {
   categories: readonly Category[];
-  /** Category index per row; -1 where the cell is not valid. */
-  rowCategory: Int32Array;
+  /**
+   * Category index per row; -1 where the cell is not valid. Or, for a coded column, its codes
+   * as stored (1 + category index; 0 where the cell is not valid), read without a copy.
+   */
+  rowCategory: Int32Array | { codes: Uint16Array };
   level: 'nominal' | 'ordinal';
   binned: boolean;
   weights?: Float64Array;
@@ -40,23 +43,7 @@ export function describeCategorical(d: ItemDescription, input: CategoricalInput,
   const k = categories.length;
   const counts = new Float64Array(k);
   const wCounts = new Float64Array(k);
-  let n = 0;
-  let wn = 0;
-  let excluded = 0;
-  for (let r = 0; r < rowCategory.length; r++) {
-    const c = rowCategory[r]!;
-    if (c < 0) continue;
-    counts[c]!++;
-    n++;
-    if (weights) {
-      const w = weights[r]!;
-      if (Number.isNaN(w)) excluded++;
-      else {
-        wCounts[c]! += w;
-        wn++;
-      }
-    }
-  }
+  const { n, wn, excluded } = rowCategory instanceof Int32Array ? tally(rowCategory, 0, counts, wCounts, weights) : tally(rowCategory.codes, 1, counts, wCounts, weights);
   d.n = n;
   const ordered = level === 'ordinal';
   const conventions: ConventionKey[] = ['percent', 'mode'];
@@ -125,6 +112,38 @@ export function describeCategorical(d: ItemDescription, input: CategoricalInput,
     }
   }
   return conventions;
+}
+
+/**
+ * Counts (and weighted counts) per category from each row's category index plus `offset` (a
+ * value below `offset` is not a valid cell), the weights summed in row order; a NaN weight
+ * leaves its cell out of the weighted counts and is counted in `excluded`. Cost: O(rows).
+ */
+function tally(
+  rowCategory: Int32Array | Uint16Array,
+  offset: number,
+  counts: Float64Array,
+  wCounts: Float64Array,
+  weights: Float64Array | undefined,
+): { n: number; wn: number; excluded: number } {
+  let n = 0;
+  let wn = 0;
+  let excluded = 0;
+  for (let r = 0; r < rowCategory.length; r++) {
+    const c = rowCategory[r]! - offset;
+    if (c < 0) continue;
+    counts[c]!++;
+    n++;
+    if (weights) {
+      const w = weights[r]!;
+      if (Number.isNaN(w)) excluded++;
+      else {
+        wCounts[c]! += w;
+        wn++;
+      }
+    }
+  }
+  return { n, wn, excluded };
 }
 
 /** Grouped median of a binned item from its bins (sorted by lower limit) and code counts. */

@@ -6,9 +6,11 @@ import {
   modesSorted,
   quantileSorted,
   sortedValid,
+  sortedValidWith,
   tukeyFences,
   weightedMoments,
   weightedQuantiles,
+  weightedQuantilesSorted,
 } from '@codeweir/stats';
 import type { ItemDescription } from './types.ts';
 import type { NormalizedDescribeOptions } from './options.ts';
@@ -30,7 +32,8 @@ const round = (x: number) => Number(x.toPrecision(4));
  * quartiles, IQR, percentiles, modes, G1, G2, Tukey fences with outlier counts and values, the
  * outlier note, a histogram, and for ratio items cv and geometric mean; with weights the
  * weighted mean, sd and quartiles. Returns the convention keys used.
- * Cost: O(rows) with one sort of the valid values (`sortedValid`: a radix sort from 16,384 values on).
+ * Cost: O(rows) with one sort of the valid values (`sortedValid`: a radix sort from 16,384 values on;
+ * with weights the sort also carries each value's weight, and the weighted quantiles walk that order).
  */
 export function describeContinuous(
   d: ItemDescription,
@@ -39,7 +42,9 @@ export function describeContinuous(
   opts: NormalizedDescribeOptions,
   weights?: Float64Array,
 ): ConventionKey[] {
-  const sorted = sortedValid(values);
+  // With weights, one sort that carries each value's weight serves the weighted quantiles too.
+  const ordered = weights ? sortedValidWith(values, weights) : undefined;
+  const sorted = ordered ? ordered.sorted : sortedValid(values);
   const n = sorted.length;
   d.n = n;
   withhold(d.withheld, ['frequencies'], REASON.continuousFrequencies);
@@ -99,7 +104,9 @@ export function describeContinuous(
     if (wm.sumOfWeights > 0) {
       d.weighted.mean = wm.mean;
       if (wm.sumOfWeights > 1) d.weighted.sd = Math.sqrt(wm.m2 / (wm.sumOfWeights - 1));
-      const [q1, med, q3] = weightedQuantiles(wv, ww, [0.25, 0.5, 0.75]);
+      const ps = [0.25, 0.5, 0.75];
+      // The sort above puts -0 before +0 where the weighted order ties them: then sort again.
+      const [q1, med, q3] = ordered && !ordered.negativeZero ? weightedQuantilesSorted(sorted, ordered.carried, wm.sumOfWeights, ps) : weightedQuantiles(wv, ww, ps);
       d.weighted.q1 = q1!;
       d.weighted.median = med!;
       d.weighted.q3 = q3!;

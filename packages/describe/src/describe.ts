@@ -102,8 +102,7 @@ export function categoriesOf(item: CompiledItem, col: ItemColumn): { categories:
   if (col.kind === 'coded') {
     const rowCategory = new Int32Array(col.codes.length);
     for (let r = 0; r < rowCategory.length; r++) rowCategory[r] = col.codes[r]! - 1;
-    const categories = item.codes.map((c): Category => (c.bin ? { code: c.code, label: c.label, bin: c.bin } : { code: c.code, label: c.label }));
-    return { categories, rowCategory };
+    return { categories: codeCategories(item), rowCategory };
   }
   // A numeric column summarised as categories: its distinct valid values, ascending.
   const distinct = [...new Set(Array.from(col.values).filter((v) => !Number.isNaN(v)))].sort((a, b) => a - b);
@@ -111,6 +110,11 @@ export function categoriesOf(item: CompiledItem, col: ItemColumn): { categories:
   const rowCategory = new Int32Array(col.values.length);
   for (let r = 0; r < rowCategory.length; r++) rowCategory[r] = at.get(col.values[r]!) ?? -1;
   return { categories: distinct.map((v) => ({ code: v, label: String(v) })), rowCategory };
+}
+
+/** The categories of a coded item: its codes in codebook order. */
+function codeCategories(item: CompiledItem): Category[] {
+  return item.codes.map((c): Category => (c.bin ? { code: c.code, label: c.label, bin: c.bin } : { code: c.code, label: c.label }));
 }
 
 /** Numeric values of a column summarised as interval or ratio (codes read as numbers). */
@@ -154,7 +158,8 @@ export function describeItem(
     // Binned items are ordinal whatever the codebook says; interval or ratio codes that are not
     // numbers keep their declared order, so they are summarised as an ordinal scale.
     const ordinal = level === 'ordinal' || item.binned || level === 'interval' || level === 'ratio';
-    const { categories, rowCategory } = categoriesOf(item, col);
+    // A coded column's codes are read as they are stored, without a per-row copy.
+    const { categories, rowCategory } = col.kind === 'coded' ? { categories: codeCategories(item), rowCategory: { codes: col.codes } } : categoriesOf(item, col);
     conventions = describeCategorical(d, { categories, rowCategory, level: ordinal ? 'ordinal' : 'nominal', binned: item.binned, weights }, opts);
   }
   d.conventions = conventionsFor(conventions, opts.quantileType);

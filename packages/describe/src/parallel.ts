@@ -125,15 +125,15 @@ export async function describeParallel(
           w.postMessage(job);
         }),
     );
-    // The calling thread claims items too (the workers' answers wait in their ports meanwhile).
-    for (let k = caller ? Atomics.add(next, 0, 1) : heavy.length; k < heavy.length; k = Atomics.add(next, 0, 1)) {
-      const name = heavy[k]!.name;
-      parts.set(name, one(name));
-    }
-    // The other items while the workers finish.
+    // The other items first, while the workers start; then the calling thread claims interval
+    // and ratio items too (the workers' answers wait in their ports meanwhile).
     for (const item of codebook.items) {
       if (item.role === 'id' || heavy.includes(item) || !store.columns[item.name]) continue;
       parts.set(item.name, one(item.name));
+    }
+    for (let k = caller ? Atomics.add(next, 0, 1) : heavy.length; k < heavy.length; k = Atomics.add(next, 0, 1)) {
+      const name = heavy[k]!.name;
+      parts.set(name, one(name));
     }
     await Promise.all(served);
     await Promise.all(workers.map((w) => w.terminate()));

@@ -1,5 +1,5 @@
 // Order statistics
-export { sortedCopy, sortedValid } from './sort.ts';
+export { sortedCopy, sortedValid, sortedValidWith } from './sort.ts';
 export { quantile, quantileSorted, type QuantileType } from './quantile.ts';
 export { quantilesInPlace, selectKth } from './select.ts';
 export { tukeyFences, OUTLIER_MULTIPLIER, EXTREME_MULTIPLIER, type Fences } from './fences.ts';
@@ -32,7 +32,7 @@ export { frequencies, type FrequencyRow } from './frequencies.ts';
 export { histogramSorted, MAX_BINS, type Histogram } from './histogram.ts';
 // Grouped and weighted data
 export { groupedMedian, classBoundaries, type GroupedClass, type GroupedMedianResult } from './grouped-median.ts';
-export { weightedMean, weightedSd, weightedMoments, weightedQuantile, weightedQuantiles } from './weighted.ts';
+export { weightedMean, weightedSd, weightedMoments, weightedQuantile, weightedQuantiles, weightedQuantilesSorted } from './weighted.ts';
 // Complex samples: design-based estimates
 export { resolveSampleDesign, designDegreesOfFreedom, type SampleDesign, type SampleDesignInput, type SingleClusterRule } from './sample-design.ts';
 export { designMean, designProportions, type DesignEstimate, type DesignBase, type Domain } from './taylor-variance.ts';

@@ -46,6 +46,42 @@ export function sortedValid(values: ArrayLike<number>): Float64Array {
   return n < RADIX_SORT_MIN ? out.sort() : radixSort(out).sorted;
 }
 
+/**
+ * {@link sortedValid} with a number carried along: carried[k] is `alongside` at the row of
+ * sorted[k] (equal values in row order: a stable sort), e.g. each value's weight. Also says
+ * whether any value is -0, the one value whose place among equals differs between sorting with
+ * -0 before +0 (as here) and with the two tied.
+ *
+ * Convention: as {@link sortedValid}; `sorted` is the same, element for element and to the sign
+ * of a zero. `alongside` must be as long as `values`. Cost: O(n) by the radix sort carrying the
+ * numbers from {@link RADIX_SORT_MIN} values on (about 32 bytes per value), a comparison sort
+ * of positions below. Throws nothing.
+ * @example sortedValidWith([3, NaN, 1], [0.5, 1, 2]) // { sorted: [1, 3], carried: [2, 0.5], negativeZero: false }
+ */
+export function sortedValidWith(values: ArrayLike<number>, alongside: ArrayLike<number>): { sorted: Float64Array; carried: Float64Array; negativeZero: boolean } {
+  let n = 0;
+  for (let i = 0; i < values.length; i++) if (!Number.isNaN(values[i]!)) n++;
+  const keys = new Float64Array(n);
+  const carried = new Float64Array(n);
+  let negativeZero = false;
+  let k = 0;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i]!;
+    if (Number.isNaN(v)) continue;
+    if (v === 0 && 1 / v < 0) negativeZero = true;
+    keys[k] = v;
+    carried[k++] = alongside[i]!;
+  }
+  if (n >= RADIX_SORT_MIN) {
+    const r = radixSort(keys, new Uint32Array(carried.buffer, carried.byteOffset, 2 * n));
+    return { sorted: r.sorted, carried: new Float64Array(r.order!.buffer, r.order!.byteOffset, n), negativeZero };
+  }
+  // Below the radix sort's break-even: positions by value, -0 before +0, ties in row order.
+  const minusZero = (x: number): number => (Object.is(x, -0) ? 0 : 1);
+  const idx = Array.from({ length: n }, (_, j) => j).sort((a, b) => keys[a]! - keys[b]! || minusZero(keys[a]!) - minusZero(keys[b]!) || a - b);
+  return { sorted: Float64Array.from(idx, (j) => keys[j]!), carried: Float64Array.from(idx, (j) => carried[j]!), negativeZero };
+}
+
 const LITTLE_ENDIAN = new Uint8Array(Uint32Array.of(1).buffer)[0] === 1;
 /** Offsets of the low and high 32-bit halves of a double within its two-word slot. */
 const LO = LITTLE_ENDIAN ? 0 : 1;
@@ -55,7 +91,8 @@ const BUCKETS = 65536;
 
 /**
  * Sorts NaN-free `keys` ascending, reusing their memory, and with `positions` permutes them
- * alongside: order[k] is the position that came with sorted[k]. The result may live in the
+ * alongside: order[k] is the position that came with sorted[k]. `positions` twice as long as
+ * `keys` carries two words per key (a Float64Array's words: a double that goes with each key). The result may live in the
  * keys' buffer or in a scratch buffer of the same size, so read it from the returned arrays and
  * treat `keys` and `positions` as consumed.
  *
@@ -70,6 +107,8 @@ const BUCKETS = 65536;
  */
 export function radixSort(keys: Float64Array, positions?: Uint32Array): { sorted: Float64Array; order?: Uint32Array } {
   const m = keys.length;
+  // Two words of `positions` per key carry a double (e.g. a weight) instead of a position.
+  const pairs = positions !== undefined && positions.length === 2 * m && m > 0;
   let src: Uint32Array = new Uint32Array(keys.buffer, keys.byteOffset, 2 * m);
   const count = new Uint32Array(4 * BUCKETS);
   // Map IEEE 754 bits to unsigned integers in numeric order: negatives have every bit flipped
@@ -92,7 +131,7 @@ export function radixSort(keys: Float64Array, positions?: Uint32Array): { sorted
   }
   let dst: Uint32Array = new Uint32Array(2 * m);
   let order: Uint32Array | undefined = positions;
-  let nextOrder: Uint32Array | undefined = positions ? new Uint32Array(m) : undefined;
+  let nextOrder: Uint32Array | undefined = positions ? new Uint32Array(positions.length) : undefined;
   for (let pass = 0; pass < 4 && m > 0; pass++) {
     const word = pass < 2 ? LO : HI;
     const shift = pass % 2 === 0 ? 0 : 16;
@@ -105,7 +144,16 @@ export function radixSort(keys: Float64Array, positions?: Uint32Array): { sorted
       count[d] = sum;
       sum += c;
     }
-    if (order && nextOrder) {
+    if (order && nextOrder && pairs) {
+      for (let i = 0; i < m; i++) {
+        const p = count[base + ((src[2 * i + word] >>> shift) & 0xffff)]++;
+        dst[2 * p] = src[2 * i];
+        dst[2 * p + 1] = src[2 * i + 1];
+        nextOrder[2 * p] = order[2 * i];
+        nextOrder[2 * p + 1] = order[2 * i + 1];
+      }
+      [order, nextOrder] = [nextOrder, order];
+    } else if (order && nextOrder) {
       for (let i = 0; i < m; i++) {
         const p = count[base + ((src[2 * i + word] >>> shift) & 0xffff)]++;
         dst[2 * p] = src[2 * i];

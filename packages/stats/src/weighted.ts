@@ -127,14 +127,33 @@ function comparatorOrder(values: ArrayLike<number>, weights: ArrayLike<number>):
 }
 
 /**
+ * {@link weightedQuantiles} of the values of `sorted` (ascending, stable: equal values in row
+ * order), `sortedWeights[k]` being the weight of sorted[k], where `total` is the sum of the
+ * positive weights in row order (as {@link weightedMoments} sums them). Values whose weight is
+ * not positive (NaN included) are passed over, so one sort serves the unweighted and the
+ * weighted figures alike (see `sortedValidWith`).
+ *
+ * Convention: as {@link weightedQuantile}. The result is the same, bit for bit, as
+ * weightedQuantiles of the values with their weights in row order when no value among them is
+ * -0 (which this order puts before +0, and weightedQuantiles ties with it).
+ * Cost: O(n + k log k), no sort, one sequential walk. Throws nothing; NaN when total is not positive.
+ */
+export function weightedQuantilesSorted(sorted: Float64Array, sortedWeights: Float64Array, total: number, ps: readonly number[]): number[] {
+  if (!(total > 0) || sorted.length !== sortedWeights.length) return ps.map(() => Number.NaN);
+  return walkShares(sorted, sortedWeights, undefined, total, ps);
+}
+
+/**
  * For each p, the first value along `order` whose cumulative weight share reaches p - eps (the
  * last value when none does), in one walk: the ps are visited in ascending order, and a share
  * that misses one p misses every larger p too, so each p is answered at its first success.
+ * Without `order` the values and weights are already in sorted order. Entries whose
+ * weight is not positive are passed over.
  */
 function walkShares(
   values: ArrayLike<number>,
   weights: ArrayLike<number>,
-  order: ArrayLike<number>,
+  order: ArrayLike<number> | undefined,
   total: number,
   ps: readonly number[],
 ): number[] {
@@ -147,13 +166,28 @@ function walkShares(
   pending.sort((a, b) => ps[a]! - ps[b]!);
   let next = 0;
   let cum = 0;
-  for (let k = 0; k < order.length && next < pending.length; k++) {
-    const i = order[k]!;
-    cum += weights[i]!;
+  let last = Number.NaN;
+  const length = order ? order.length : values.length;
+  for (let k = 0; k < length && next < pending.length; k++) {
+    const i = order ? order[k]! : k;
+    const w = weights[i]!;
+    if (!(w > 0)) continue;
+    const v = values[i]!;
+    cum += w;
+    last = v;
     const share = cum / total;
-    while (next < pending.length && share >= ps[pending[next]!]! - eps) out[pending[next++]!] = values[i]!;
+    while (next < pending.length && share >= ps[pending[next]!]! - eps) out[pending[next++]!] = v;
   }
-  const last = values[order[order.length - 1]!]!;
+  if (next < pending.length) {
+    // The walk ended without reaching every p: the answer is the last value with a positive weight.
+    for (let k = length - 1; k >= 0; k--) {
+      const i = order ? order[k]! : k;
+      if (weights[i]! > 0) {
+        last = values[i]!;
+        break;
+      }
+    }
+  }
   while (next < pending.length) out[pending[next++]!] = last;
   return out;
 }

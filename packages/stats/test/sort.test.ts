@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { RADIX_SORT_MIN, radixSort, sortedValid } from '../src/sort.ts';
+import { RADIX_SORT_MIN, radixSort, sortedValid, sortedValidWith } from '../src/sort.ts';
 import { awkwardDoubles, signed } from './awkward.ts';
 
 describe('radixSort', () => {
@@ -53,6 +53,24 @@ describe('sortedValid', () => {
       expect(signed(sortedValid(input))).toEqual(signed(reference));
       // The input is left as it was.
       expect(signed(input)).toEqual(signed(values));
+    }
+  });
+});
+
+describe('sortedValidWith', () => {
+  it('sorts as sortedValid and carries each value\'s number along, stably, below and above the radix threshold', () => {
+    for (const n of [0, 1, 50, RADIX_SORT_MIN - 1, RADIX_SORT_MIN, 3 * RADIX_SORT_MIN]) {
+      const values = awkwardDoubles(n + 3, n).map((v, i) => (i % 7 === 3 ? Number.NaN : v));
+      // The row number as the carried number, so the carried order can be checked directly.
+      const rows = values.map((_, i) => i);
+      const { sorted, carried, negativeZero } = sortedValidWith(values, rows);
+      expect(signed(sorted)).toEqual(signed(sortedValid(values)));
+      // Reference: a stable comparator sort of the valid rows (ECMAScript 2019 sorts are
+      // stable), -0 before +0 as the typed-array sort orders them.
+      const key = (i: number): [number, number] => [values[i]!, Object.is(values[i], -0) ? 0 : 1];
+      const reference = rows.filter((i) => !Number.isNaN(values[i]!)).sort((a, b) => key(a)[0] - key(b)[0] || key(a)[1] - key(b)[1]);
+      expect(Array.from(carried)).toEqual(reference);
+      expect(negativeZero).toBe(values.some((v) => Object.is(v, -0)));
     }
   });
 });

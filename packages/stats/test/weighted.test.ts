@@ -1,7 +1,7 @@
 import { describe, it, expect } from 'vitest';
-import { weightedMean, weightedSd, weightedQuantile, weightedQuantiles } from '../src/weighted.ts';
+import { weightedMean, weightedSd, weightedQuantile, weightedQuantiles, weightedQuantilesSorted } from '../src/weighted.ts';
 import { quantile } from '../src/quantile.ts';
-import { RADIX_ORDER_MIN } from '../src/sort.ts';
+import { RADIX_ORDER_MIN, RADIX_SORT_MIN, sortedValidWith } from '../src/sort.ts';
 import { R, jStat, seeded } from './oracle.ts';
 import { awkwardDoubles, signed } from './awkward.ts';
 
@@ -117,5 +117,30 @@ describe('weightedQuantiles against the comparator-sort reference', () => {
     const values = awkwardDoubles(4, 2 * RADIX_ORDER_MIN).map((v, i) => (i % 97 === 0 ? Number.NaN : v));
     const weights = values.map(() => 1);
     expect(signed(weightedQuantiles(values, weights, ps))).toEqual(signed(referenceQuantiles(values, weights, ps)));
+  });
+});
+
+describe('weightedQuantilesSorted: the weighted quantiles from one sort that carries the weights', () => {
+  const ps = [0.9, 0, 0.5, 0.25, 1, 0.75, 1e-12, 1 - 1e-12, 1.5];
+  it('agrees bit for bit with the comparator-sort reference when no value is -0, NaN cells and NaN weights included', () => {
+    for (const n of [1, 9, 300, RADIX_SORT_MIN + 1, 3 * RADIX_SORT_MIN]) {
+      // -0 made +0: this order puts -0 first where the reference ties it with +0 (see the doc).
+      const rnd = seeded(n + 7);
+      const values = awkwardDoubles(n + 2, n).map((v) => (rnd() < 0.1 ? Number.NaN : v + 0));
+      const weights = values.map(() => (rnd() < 0.2 ? [0, -1, Number.NaN][Math.floor(rnd() * 3)]! : rnd() < 0.5 ? 1 : rnd() * 3));
+      const { sorted, carried, negativeZero } = sortedValidWith(values, weights);
+      expect(negativeZero).toBe(false);
+      // The total as weightedMoments sums it: the positive weights of the valid values, in row order.
+      let total = 0;
+      values.forEach((v, i) => {
+        if (!Number.isNaN(v) && weights[i]! > 0) total += weights[i]!;
+      });
+      const valid = values.map((v) => !Number.isNaN(v));
+      const reference = referenceQuantiles(values.filter((_, i) => valid[i]), weights.filter((_, i) => valid[i]), ps);
+      expect(signed(weightedQuantilesSorted(sorted, carried, total, ps))).toEqual(signed(reference));
+    }
+  });
+  it('is NaN without a positive total (first principles: no weight share is defined)', () => {
+    expect(weightedQuantilesSorted(Float64Array.of(1, 2), Float64Array.of(0, 0), 0, [0.5])).toEqual([Number.NaN]);
   });
 });
