@@ -98,15 +98,16 @@ export function describeContinuous(
 
   if (weights) {
     conventions.push('weights', 'weightedMean', 'weightedSd', 'weightedQuantiles');
-    const { wv, ww, excluded } = weightedPairs(values, weights);
-    const wm = weightedMoments(wv, ww);
-    d.weighted = { sumOfWeights: wm.sumOfWeights, n: wv.length, excluded };
+    const { m, excluded } = weightCounts(values, weights);
+    // In row order over the valid values, as over a copy of them with their weights.
+    const wm = weightedMoments(values, weights, true);
+    d.weighted = { sumOfWeights: wm.sumOfWeights, n: m, excluded };
     if (wm.sumOfWeights > 0) {
       d.weighted.mean = wm.mean;
       if (wm.sumOfWeights > 1) d.weighted.sd = Math.sqrt(wm.m2 / (wm.sumOfWeights - 1));
       const ps = [0.25, 0.5, 0.75];
       // The sort above puts -0 before +0 where the weighted order ties them: then sort again.
-      const [q1, med, q3] = ordered && !ordered.negativeZero ? weightedQuantilesSorted(sorted, ordered.carried, wm.sumOfWeights, ps) : weightedQuantiles(wv, ww, ps);
+      const [q1, med, q3] = ordered && !ordered.negativeZero ? weightedQuantilesSorted(sorted, ordered.carried, wm.sumOfWeights, ps) : weightedQuantiles(...weightedPairs(values, weights, m), ps);
       d.weighted.q1 = q1!;
       d.weighted.median = med!;
       d.weighted.q3 = q3!;
@@ -116,10 +117,10 @@ export function describeContinuous(
 }
 
 /**
- * The valid values that have a valid weight, with those weights, in row order, and the number
- * of valid values whose weight is missing. Cost: O(rows), two passes. Throws nothing.
+ * How many valid values have a valid weight (m), and how many have a missing one (excluded).
+ * Cost: O(rows). Throws nothing.
  */
-function weightedPairs(values: Float64Array, weights: Float64Array): { wv: Float64Array; ww: Float64Array; excluded: number } {
+function weightCounts(values: Float64Array, weights: Float64Array): { m: number; excluded: number } {
   let m = 0;
   let excluded = 0;
   for (let r = 0; r < values.length; r++) {
@@ -127,6 +128,14 @@ function weightedPairs(values: Float64Array, weights: Float64Array): { wv: Float
     if (Number.isNaN(weights[r]!)) excluded++;
     else m++;
   }
+  return { m, excluded };
+}
+
+/**
+ * The `m` valid values that have a valid weight, with those weights, in row order.
+ * Cost: O(rows). Throws nothing.
+ */
+function weightedPairs(values: Float64Array, weights: Float64Array, m: number): [Float64Array, Float64Array] {
   const wv = new Float64Array(m);
   const ww = new Float64Array(m);
   let k = 0;
@@ -137,7 +146,7 @@ function weightedPairs(values: Float64Array, weights: Float64Array): { wv: Float
     wv[k] = v;
     ww[k++] = w;
   }
-  return { wv, ww, excluded };
+  return [wv, ww];
 }
 
 /** Tukey fences, outlier and extreme counts, the most extreme values and the outlier note. */

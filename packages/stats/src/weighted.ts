@@ -30,11 +30,14 @@ export function weightedSd(values: ArrayLike<number>, weights: ArrayLike<number>
 
 /**
  * Sum of weights, weighted mean and weighted sum of squared deviations (West's update).
+ * With `skipNaN` a NaN value is passed over with its weight (the figures of the valid values
+ * only, without copying them out first).
  * Cost: O(n). Throws nothing; mean NaN when the weights sum to 0 or the lengths differ.
  */
 export function weightedMoments(
   values: ArrayLike<number>,
   weights: ArrayLike<number>,
+  skipNaN = false,
 ): { sumOfWeights: number; mean: number; m2: number } {
   if (values.length !== weights.length) return { sumOfWeights: 0, mean: Number.NaN, m2: Number.NaN };
   let sw = 0;
@@ -44,6 +47,7 @@ export function weightedMoments(
     const w = weights[i]!;
     if (!(w > 0)) continue;
     const x = values[i]!;
+    if (skipNaN && Number.isNaN(x)) continue;
     sw += w;
     const delta = x - mean;
     const r = (delta * w) / sw;

@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { weightedMean, weightedSd, weightedQuantile, weightedQuantiles, weightedQuantilesSorted } from '../src/weighted.ts';
+import { weightedMean, weightedMoments, weightedSd, weightedQuantile, weightedQuantiles, weightedQuantilesSorted } from '../src/weighted.ts';
 import { quantile } from '../src/quantile.ts';
 import { RADIX_ORDER_MIN, RADIX_SORT_MIN, sortedValidWith } from '../src/sort.ts';
 import { R, jStat, seeded } from './oracle.ts';
@@ -142,5 +142,18 @@ describe('weightedQuantilesSorted: the weighted quantiles from one sort that car
   });
   it('is NaN without a positive total (first principles: no weight share is defined)', () => {
     expect(weightedQuantilesSorted(Float64Array.of(1, 2), Float64Array.of(0, 0), 0, [0.5])).toEqual([Number.NaN]);
+  });
+});
+
+describe('weightedMoments with skipNaN', () => {
+  it('gives, bit for bit, the moments of the valid values copied out with their weights (the same additions in the same order)', () => {
+    const rnd = seeded(11);
+    const values = Array.from({ length: 5000 }, () => (rnd() < 0.15 ? Number.NaN : 1000 * rnd() - 300));
+    const weights = values.map(() => (rnd() < 0.1 ? Number.NaN : rnd() < 0.1 ? 0 : 3 * rnd()));
+    const keep = values.map((v, i) => !Number.isNaN(v) && !Number.isNaN(weights[i]!));
+    const copied = weightedMoments(values.filter((_, i) => keep[i]), weights.filter((_, i) => keep[i]));
+    expect(weightedMoments(values, weights, true)).toEqual(copied);
+    // Without skipNaN a NaN value with a positive weight makes the mean NaN (first principles).
+    expect(weightedMoments(values, weights).mean).toBeNaN();
   });
 });
