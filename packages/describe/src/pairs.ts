@@ -72,14 +72,14 @@ export interface PairPlan {
 
 /**
  * Reusable row-length buffers of one thread: a pair's ranks, its complete values copied out
- * and its groups go here instead of arrays of their own. Made on first use, 55 bytes per row.
+ * and its groups go here instead of arrays of their own. Made on first use, 39 bytes per row.
  */
 export class PairScratch {
   private made?: { complete: Uint8Array; rowOf: Uint32Array; groupAt: Uint16Array; f64: Float64Array[] };
   constructor(readonly rows: number) {}
   get buffers() {
     const rows = this.rows;
-    this.made ??= { complete: new Uint8Array(rows), rowOf: new Uint32Array(rows), groupAt: new Uint16Array(rows), f64: Array.from({ length: 6 }, () => new Float64Array(rows)) };
+    this.made ??= { complete: new Uint8Array(rows), rowOf: new Uint32Array(rows), groupAt: new Uint16Array(rows), f64: Array.from({ length: 4 }, () => new Float64Array(rows)) };
     return this.made;
   }
 }
@@ -370,7 +370,7 @@ function describeContinuous(x: Numeric, y: Numeric, include: Uint8Array | undefi
   const yv = y.column.values;
   const rows = xv.length;
   const { complete, rowOf, f64 } = scratch.buffers;
-  const [xRanks, yRanks, xAll, yAll, rxAll, ryAll] = f64 as [Float64Array, Float64Array, Float64Array, Float64Array, Float64Array, Float64Array];
+  const [xRanks, yRanks, xAll, yAll] = f64 as [Float64Array, Float64Array, Float64Array, Float64Array];
   // The complete pairs, in row order: rowOf[k] is the row of the k-th one.
   let n = 0;
   for (let r = 0; r < rows; r++) {
@@ -385,8 +385,9 @@ function describeContinuous(x: Numeric, y: Numeric, include: Uint8Array | undefi
   ranksAmong(y.column, complete, yRanks);
   const xs = xAll.subarray(0, n);
   const ys = yAll.subarray(0, n);
-  const rxs = rxAll.subarray(0, n);
-  const rys = ryAll.subarray(0, n);
+  // The ranks are copied out in place: rowOf[k] >= k, so no rank is overwritten before it is read.
+  const rxs = xRanks.subarray(0, n);
+  const rys = yRanks.subarray(0, n);
   for (let k = 0; k < n; k++) {
     const row = rowOf[k];
     xs[k] = xv[row];
