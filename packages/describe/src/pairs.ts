@@ -371,11 +371,15 @@ function describeContinuous(x: Numeric, y: Numeric, include: Uint8Array | undefi
   const rows = xv.length;
   const { complete, rowOf, f64 } = scratch.buffers;
   const [xRanks, yRanks, xAll, yAll] = f64 as [Float64Array, Float64Array, Float64Array, Float64Array];
-  // The complete pairs, in row order: rowOf[k] is the row of the k-th one.
+  // The complete pairs, in row order: rowOf[k] is the row of the k-th one, xAll[k] and yAll[k] its values.
   let n = 0;
   for (let r = 0; r < rows; r++) {
-    if (!Number.isNaN(xv[r]) && !Number.isNaN(yv[r]) && (include === undefined || include[r] === 1)) {
+    const a = xv[r];
+    const b = yv[r];
+    if (!Number.isNaN(a) && !Number.isNaN(b) && (include === undefined || include[r] === 1)) {
       complete[r] = 1;
+      xAll[n] = a;
+      yAll[n] = b;
       rowOf[n++] = r;
     } else complete[r] = 0;
   }
@@ -390,8 +394,6 @@ function describeContinuous(x: Numeric, y: Numeric, include: Uint8Array | undefi
   const rys = yRanks.subarray(0, n);
   for (let k = 0; k < n; k++) {
     const row = rowOf[k];
-    xs[k] = xv[row];
-    ys[k] = yv[row];
     rxs[k] = xRanks[row];
     rys[k] = yRanks[row];
   }
