@@ -2,7 +2,9 @@
  * Describing on several threads must give exactly what one thread gives: the same items, the
  * same figures to the bit, the same conventions, in the same order. The expectation is the
  * single-thread `describe` itself (whose figures the demo and reference tests check against
- * outside oracles), on the demo delivery with its weight item.
+ * outside oracles, the pairs' in packages/describe/test/pairs.test.ts against R reference
+ * values), on the demo delivery with its weight item and items of every level (so every kind
+ * of pair).
  */
 import { describe as suite, it, expect, beforeAll } from 'vitest';
 import { fileURLToPath } from 'node:url';
@@ -46,5 +48,37 @@ suite('describeParallel', () => {
   it('fails on a bad option before any thread starts, with the error describe gives', async () => {
     expect(() => describe(result, codebook, { weight: 'nope' })).toThrow(/--weight names "nope"/);
     await expect(describeParallel(result, codebook, { weight: 'nope' }, { threads: 2, minRows: 0 })).rejects.toThrow(/--weight names "nope"/);
+  });
+});
+
+suite('describeParallel pairs', () => {
+  it('equal the one-thread pairs with the calling thread sharing them, and with the workers taking them all', async () => {
+    const one = describe(result, codebook, { pairs: 'all' });
+    const kinds = new Set(one.pairs.map((p) => p.kind));
+    expect([...kinds].sort()).toEqual(['categorical-categorical', 'categorical-continuous', 'continuous-continuous']);
+    const expected = JSON.stringify(one);
+    expect(JSON.stringify(await describeParallel(result, codebook, { pairs: 'all' }, { threads: 2, minRows: 0 }))).toBe(expected);
+    expect(JSON.stringify(await describeParallel(result, codebook, { pairs: 'all' }, { threads: 3, minRows: 0, useCallingThread: false }))).toBe(expected);
+    expect(JSON.stringify(await describeParallel(result, codebook, { pairs: 'all' }, { threads: 1 }))).toBe(expected);
+  }, 120_000);
+
+  it('equal the one-thread pairs listwise, with named pairs in the requested order', async () => {
+    const continuous = codebook.items.filter((i) => i.role === 'item' && (i.level === 'interval' || i.level === 'ratio')).map((i) => i.name);
+    const categorical = codebook.items.filter((i) => i.role !== 'id' && (i.level === 'nominal' || i.level === 'ordinal')).map((i) => i.name);
+    const pairs: Array<[string, string]> = [
+      [continuous[1]!, continuous[0]!],
+      [continuous[0]!, categorical[0]!],
+      [categorical[1]!, categorical[0]!],
+      [continuous[2]!, continuous[1]!],
+    ];
+    const options = { pairs, listwise: true, quantileType: 6 as const };
+    const one = describe(result, codebook, options);
+    expect(one.pairs.map((p) => p.listwise)).toEqual([true, true, true, true]);
+    expect(JSON.stringify(await describeParallel(result, codebook, options, { threads: 2, minRows: 0 }))).toBe(JSON.stringify(one));
+  }, 120_000);
+
+  it('fails on a bad pair before any thread starts, with the error describe gives', async () => {
+    expect(() => describe(result, codebook, { pairs: [['nope', 'x']] })).toThrow(/names "nope"/);
+    await expect(describeParallel(result, codebook, { pairs: [['nope', 'x']] }, { threads: 2, minRows: 0 })).rejects.toThrow(/names "nope"/);
   });
 });

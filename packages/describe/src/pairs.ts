@@ -1,8 +1,9 @@
 /**
  * Bivariate summaries chosen by the two items' levels of measurement: a contingency table for
  * two categorical items, correlations for two continuous ones, and per-group summaries of a
- * continuous item by a categorical one. Each pair is one linear scan over two typed columns of
- * the check pass's store; no per-row objects are made.
+ * continuous item by a categorical one. Each pair is a few linear scans over two typed columns of
+ * the check pass's store into reused buffers; no per-row objects are made. A plan (planPairs)
+ * holds what the pairs read, so that threads can share them out (see pairs-parallel.ts).
  */
 import { CodeweirError } from '@codeweir/core';
 import type { CompiledCodebook, CompiledItem } from '@codeweir/codebook';
@@ -16,19 +17,17 @@ import {
   etaSquared,
   goodmanKruskalGamma,
   mahalanobisCutoff,
-  pearson,
   pearsonChiSquare,
   pearsonFromMoments,
   phi,
   quantileSorted,
-  ranksAlongOrder,
   sortColumn,
   spearmanFromTable,
   tablePercents,
   tukeyFences,
   type QuantileType,
-  type SortedColumn,
 } from '@codeweir/stats';
+import { ranksAmong, type OrderedColumn } from './pairs-kernels.ts';
 import type { GroupSummary, OrdinalPosition, PairCategorical, PairContinuous, PairDescription, PairMixed } from './types.ts';
 
 export interface PairOptions {
@@ -51,7 +50,46 @@ export const MAHALANOBIS_PROBABILITY = 0.999;
 
 type Side = { item: CompiledItem; column: ItemColumn };
 type Coded = { item: CompiledItem; codes: Uint16Array };
-type Numeric = { item: CompiledItem; values: Float64Array; sorted: () => SortedColumn };
+type Numeric = { item: CompiledItem; column: OrderedColumn };
+
+/** One column as a planned pair job holds it: a coded item's codes, or a continuous item's values with their sort order. */
+export type PairColumn = { kind: 'coded'; codes: Uint16Array } | ({ kind: 'numeric' } & OrderedColumn);
+
+/**
+ * Everything the requested pairs read, by item name, with no reference to the check result: a
+ * thread that holds the plan (its typed arrays may live in SharedArrayBuffers) and the compiled
+ * codebook can describe any pair of it.
+ */
+export interface PairPlan {
+  rows: number;
+  /** The requested pairs as [x, y] item names, in output order. */
+  pairs: Array<[string, string]>;
+  columns: Record<string, PairColumn>;
+  /** 1 where a row counts (listwise), absent for pairwise complete. */
+  include?: Uint8Array;
+  quantileType: QuantileType;
+}
+
+/**
+ * Reusable row-length buffers of one thread: a pair's ranks, its complete values copied out
+ * and its groups go here instead of arrays of their own. Made on first use, 39 bytes per row.
+ */
+export class PairScratch {
+  private made?: { complete: Uint8Array; rowOf: Uint32Array; groupAt: Uint16Array; f64: Float64Array[] };
+  constructor(readonly rows: number) {}
+  get buffers() {
+    const rows = this.rows;
+    this.made ??= { complete: new Uint8Array(rows), rowOf: new Uint32Array(rows), groupAt: new Uint16Array(rows), f64: Array.from({ length: 4 }, () => new Float64Array(rows)) };
+    return this.made;
+  }
+}
+
+/** How a plan's arrays are made: in SharedArrayBuffers for worker threads, and which continuous values are already shared. */
+export interface PlanMemory {
+  shared?: boolean;
+  /** Values to use instead of the store's (the same numbers, e.g. an existing shared copy). */
+  values?: (name: string) => Float64Array | undefined;
+}
 
 const CATEGORICAL_CONVENTIONS: Record<string, string> = {
   chiSquare: 'Pearson chi-square without continuity correction; codes with no valid pair are dropped from the test (df over occupied rows and columns) and kept in the table',
@@ -91,63 +129,105 @@ const CONTINUOUS_CONVENTIONS: Record<string, string> = {
  * `pairs: 'all'` takes every pair of describable items (items with a level and retained
  * values, roles item and group; id, weight and free-text items are left out) in codebook order.
  *
- * Cost: one linear scan of two typed columns per pair, plus one O(n) radix sort of each
- * continuous item the first time a pair needs it (ranks and group quartiles then walk that
- * order); the listwise mask is one scan per requested item. 'all' over k items is
- * k (k - 1) / 2 pairs.
+ * Cost: one O(n) radix sort of each continuous item in a pair (see planPairs), then per pair
+ * a few linear scans of two typed columns (ranks and group quartiles walk the sorted order),
+ * into row-length buffers made once, not per pair; 'all' over k items is k (k - 1) / 2 pairs.
  * Throws CodeweirError CW_USAGE (exit code 2) when a requested pair names an unknown item, an
  * item that cannot be paired (id, weight, free text, no retained values) or the same item twice.
  *
  * @example describePairs(result, codebook, { quantileType: 7, pairs: [['district', 'age']] })
  */
 export function describePairs(result: CheckResult, codebook: CompiledCodebook, options: PairOptions): PairDescription[] {
-  const requested = resolvePairs(result, codebook, options.pairs ?? []);
-  const include = options.listwise ? listwiseMask(result.store.rows, requested) : undefined;
-  // Each continuous column is sorted once, however many pairs it is in: its order then serves
-  // every pair's ranks and group quartiles in one linear walk.
-  const sortedColumns = new Map<string, SortedColumn>();
-  const numeric = (item: CompiledItem, values: Float64Array): Numeric => ({
-    item,
-    values,
-    sorted: () => {
-      let sorted = sortedColumns.get(item.name);
-      if (sorted === undefined) {
-        sorted = sortColumn(values);
-        sortedColumns.set(item.name, sorted);
-      }
-      return sorted;
-    },
-  });
-  return requested.map(([x, y]) => {
-    const described = describeOne(x, y, options.quantileType, include, numeric);
-    if (include !== undefined) described.listwise = true;
-    return described;
-  });
+  const plan = planPairs(result, codebook, options);
+  const scratch = new PairScratch(plan.rows);
+  return plan.pairs.map((_, k) => describePlannedPair(plan, k, codebook, scratch));
 }
 
-function describeOne(
-  x: Side,
-  y: Side,
-  quantileType: QuantileType,
-  include: Uint8Array | undefined,
-  numeric: (item: CompiledItem, values: Float64Array) => Numeric,
-): PairDescription {
+/**
+ * The requested pairs by name, checked: what {@link describePairs} describes, in its order.
+ * Cost: O(items^2) for 'all'. Throws as describePairs does (CW_USAGE), before any work on the data.
+ */
+export function requestedPairs(result: CheckResult, codebook: CompiledCodebook, options: PairOptions): Array<[string, string]> {
+  return resolvePairs(result, codebook, options.pairs ?? []).map(([x, y]) => [x.item.name, y.item.name]);
+}
+
+/**
+ * The data the requested pairs read: the coded columns, each continuous column with its sort
+ * order (sorted once, however many pairs it is in; ranks and group quartiles then walk that
+ * order), and the listwise mask. With `memory.shared` every array is in a SharedArrayBuffer.
+ * Cost: one O(n) radix sort per continuous item in a pair, and 5 bytes per row per such item
+ * kept (the order and the tie-run starts); the listwise mask is one scan per requested item.
+ * Throws as describePairs does.
+ */
+export function planPairs(result: CheckResult, codebook: CompiledCodebook, options: PairOptions, memory: PlanMemory = {}): PairPlan {
+  const requested = resolvePairs(result, codebook, options.pairs ?? []);
+  const rows = result.store.rows;
+  const alloc = <T extends Uint8Array | Uint16Array | Uint32Array | Float64Array>(make: new (b: ArrayBufferLike) => T, bytes: number): T =>
+    new make(memory.shared ? new SharedArrayBuffer(bytes) : new ArrayBuffer(bytes));
+  const columns: Record<string, PairColumn> = {};
+  for (const { item, column } of requested.flat()) {
+    if (columns[item.name] !== undefined) continue;
+    if (column.kind === 'coded') {
+      let codes = column.codes;
+      if (memory.shared && !(codes.buffer instanceof SharedArrayBuffer)) {
+        codes = alloc(Uint16Array, codes.byteLength);
+        codes.set(column.codes);
+      }
+      columns[item.name] = { kind: 'coded', codes };
+    } else if (column.kind === 'numeric') {
+      const values = memory.values?.(item.name) ?? column.values;
+      const { order, sorted } = sortColumn(values);
+      const m = order.length;
+      const keptOrder = memory.shared ? alloc(Uint32Array, order.byteLength) : order;
+      if (keptOrder !== order) keptOrder.set(order);
+      // A tie run starts where the sorted value changes (equality by ===, so -0 equals 0).
+      const runStarts = alloc(Uint8Array, m);
+      for (let k = 0; k < m; k++) runStarts[k] = k === 0 || sorted[k] !== sorted[k - 1] ? 1 : 0;
+      let shared = values;
+      if (memory.shared && !(values.buffer instanceof SharedArrayBuffer)) {
+        shared = alloc(Float64Array, values.byteLength);
+        shared.set(values);
+      }
+      columns[item.name] = { kind: 'numeric', values: shared, order: keptOrder, runStarts };
+    }
+  }
+  let include: Uint8Array | undefined;
+  if (options.listwise) {
+    include = alloc(Uint8Array, rows);
+    include.set(listwiseMask(rows, requested));
+  }
+  return { rows, pairs: requested.map(([x, y]) => [x.item.name, y.item.name]), columns, include, quantileType: options.quantileType };
+}
+
+/**
+ * Describes pair `k` of a plan, as describePairs does, with the thread's scratch buffers.
+ * Cost: O(n) for the pair. Throws nothing for a plan made by planPairs.
+ */
+export function describePlannedPair(plan: PairPlan, k: number, codebook: CompiledCodebook, scratch: PairScratch): PairDescription {
+  const [xName, yName] = plan.pairs[k]!;
+  const x = { item: codebook.byName.get(xName)!, column: plan.columns[xName]! };
+  const y = { item: codebook.byName.get(yName)!, column: plan.columns[yName]! };
+  const include = plan.include;
+  let described: PairDescription;
   if (x.column.kind === 'coded' && y.column.kind === 'coded') {
-    return describeCategorical({ item: x.item, codes: x.column.codes }, { item: y.item, codes: y.column.codes }, include);
+    described = describeCategorical({ item: x.item, codes: x.column.codes }, { item: y.item, codes: y.column.codes }, include);
+  } else if (x.column.kind === 'numeric' && y.column.kind === 'numeric') {
+    described = describeContinuous({ item: x.item, column: x.column }, { item: y.item, column: y.column }, include, scratch);
+  } else {
+    const swapped = x.column.kind === 'numeric';
+    const [c, v] = swapped ? [y, x] : [x, y];
+    const mixed = describeMixed(
+      { item: c.item, codes: (c.column as { codes: Uint16Array }).codes },
+      { item: v.item, column: v.column as OrderedColumn },
+      plan.quantileType,
+      include,
+      scratch,
+    );
+    if (swapped) mixed.swapped = true;
+    described = mixed;
   }
-  if (x.column.kind === 'numeric' && y.column.kind === 'numeric') {
-    return describeContinuous(numeric(x.item, x.column.values), numeric(y.item, y.column.values), include);
-  }
-  const swapped = x.column.kind === 'numeric';
-  const [c, v] = swapped ? [y, x] : [x, y];
-  const mixed = describeMixed(
-    { item: c.item, codes: (c.column as { codes: Uint16Array }).codes },
-    numeric(v.item, (v.column as { values: Float64Array }).values),
-    quantileType,
-    include,
-  );
-  if (swapped) mixed.swapped = true;
-  return mixed;
+  if (include !== undefined) described.listwise = true;
+  return described;
 }
 
 /** Looks up and checks the requested pairs; 'all' expands to every describable pair in codebook order. */
@@ -285,39 +365,41 @@ function emptyCodeWarnings(item: CompiledItem, used: number[]): string[] {
   return [`Codes of ${item.name} with no valid pair (${empty.join(', ')}) are left out of the chi-square test and kept in the table.`];
 }
 
-function describeContinuous(x: Numeric, y: Numeric, include: Uint8Array | undefined): PairContinuous {
-  const xv = x.values;
-  const yv = y.values;
+function describeContinuous(x: Numeric, y: Numeric, include: Uint8Array | undefined, scratch: PairScratch): PairContinuous {
+  const xv = x.column.values;
+  const yv = y.column.values;
   const rows = xv.length;
-  const complete = new Uint8Array(rows);
+  const { complete, rowOf, f64 } = scratch.buffers;
+  const [xRanks, yRanks, xAll, yAll] = f64 as [Float64Array, Float64Array, Float64Array, Float64Array];
+  // The complete pairs, in row order: rowOf[k] is the row of the k-th one, xAll[k] and yAll[k] its values.
   let n = 0;
   for (let r = 0; r < rows; r++) {
-    if (!Number.isNaN(xv[r]) && !Number.isNaN(yv[r]) && (include === undefined || include[r] === 1)) {
+    const a = xv[r];
+    const b = yv[r];
+    if (!Number.isNaN(a) && !Number.isNaN(b) && (include === undefined || include[r] === 1)) {
       complete[r] = 1;
-      n++;
-    }
+      xAll[n] = a;
+      yAll[n] = b;
+      rowOf[n++] = r;
+    } else complete[r] = 0;
   }
-  // Ranks among the complete pairs only, from each column's cached order: Spearman's rho is
-  // Pearson's r of these ranks (ties averaged).
-  const xRanks = ranksAlongOrder(x.sorted(), complete);
-  const yRanks = ranksAlongOrder(y.sorted(), complete);
-  const xs = new Float64Array(n);
-  const ys = new Float64Array(n);
-  const rxs = new Float64Array(n);
-  const rys = new Float64Array(n);
-  const rowOf = new Uint32Array(n);
-  for (let r = 0, k = 0; r < rows; r++) {
-    if (complete[r] === 0) continue;
-    xs[k] = xv[r];
-    ys[k] = yv[r];
-    rxs[k] = xRanks[r];
-    rys[k] = yRanks[r];
-    rowOf[k] = r;
-    k++;
+  // Ranks among the complete pairs only, from each column's order: Spearman's rho is Pearson's
+  // r of these ranks (ties averaged).
+  ranksAmong(x.column, complete, xRanks);
+  ranksAmong(y.column, complete, yRanks);
+  const xs = xAll.subarray(0, n);
+  const ys = yAll.subarray(0, n);
+  // The ranks are copied out in place: rowOf[k] >= k, so no rank is overwritten before it is read.
+  const rxs = xRanks.subarray(0, n);
+  const rys = yRanks.subarray(0, n);
+  for (let k = 0; k < n; k++) {
+    const row = rowOf[k];
+    rxs[k] = xRanks[row];
+    rys[k] = yRanks[row];
   }
   const moments = coMoments(xs, ys);
   const r = pearsonFromMoments(moments);
-  const rho = pearson(rxs, rys);
+  const rho = pearsonFromMoments(coMoments(rxs, rys));
   const outliers = bivariateOutliers(xs, ys, MAHALANOBIS_PROBABILITY, moments);
   const cutoff = outliers?.cutoff ?? mahalanobisCutoff(MAHALANOBIS_PROBABILITY, 2);
   const flagged = outliers?.indices ?? [];
@@ -369,15 +451,15 @@ function scatterSample(n: number, flagged: number[], d2: Float64Array | undefine
   return [...chosen].sort((a, b) => a - b).slice(0, SCATTER_SAMPLE_MAX);
 }
 
-function describeMixed(c: Coded, v: Numeric, quantileType: QuantileType, include: Uint8Array | undefined): PairMixed {
+function describeMixed(c: Coded, v: Numeric, quantileType: QuantileType, include: Uint8Array | undefined, scratch: PairScratch): PairMixed {
   const k = c.item.codes.length;
   const codes = c.codes;
-  // Counting sort into one buffer: group g occupies [start[g], start[g + 1]). The sorted order
-  // holds the rows with a valid value only, so one walk along it finds each one's group (0 for
-  // none) and counts the groups; a second, sequential walk places the values.
-  const { order, sorted } = v.sorted();
+  // Counting sort into one buffer: group g occupies [start[g], start[g + 1]). The order holds
+  // the rows with a valid value only, so one walk along it finds each one's group (0 for none)
+  // and counts the groups; a second walk places the values.
+  const { order, values } = v.column;
+  const { groupAt, f64 } = scratch.buffers;
   const m = order.length;
-  const groupAt = new Uint16Array(m);
   const counts = new Uint32Array(k + 1);
   for (let i = 0; i < m; i++) {
     const r = order[i];
@@ -385,17 +467,18 @@ function describeMixed(c: Coded, v: Numeric, quantileType: QuantileType, include
     if (g !== 0 && g <= k && (include === undefined || include[r] === 1)) {
       groupAt[i] = g;
       counts[g]++;
-    }
+    } else groupAt[i] = 0;
   }
   const start = new Uint32Array(k + 1);
   for (let g = 1; g <= k; g++) start[g] = g === 1 ? 0 : start[g - 1] + counts[g - 1];
   const n = k === 0 ? 0 : start[k] + counts[k];
-  const buffer = new Float64Array(n);
+  const buffer = f64[0]!.subarray(0, n);
   const fill = start.slice();
-  // Walking the continuous column in ascending order fills every group already sorted.
+  // Walking the continuous column in ascending order fills every group already sorted (adding
+  // 0 stores -0 as 0, as the sort does).
   for (let i = 0; i < m; i++) {
     const g = groupAt[i];
-    if (g !== 0) buffer[fill[g]++] = sorted[i];
+    if (g !== 0) buffer[fill[g]++] = values[order[i]] + 0;
   }
   const segments: Float64Array[] = [];
   const groups: GroupSummary[] = c.item.codes.map((code, i) => {

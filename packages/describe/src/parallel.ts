@@ -3,8 +3,9 @@
  * each summarised from a sort of its values, are the bulk of the work; they are shared out
  * through one atomic counter between the calling thread and worker threads, which claim the
  * next item as they come free (a worker that is still starting simply claims fewer). The other
- * items, the pairs and the assembling stay on the calling thread. Every item is described by
- * the same function from the same values, so the result equals `describe` exactly.
+ * items and the assembling stay on the calling thread. The pairs are shared out the same way
+ * once the items are claimed (see pairs-parallel.ts). Every item and pair is described by the
+ * same function from the same values, so the result equals `describe` exactly.
  *
  * This module is also the worker's entry: started as a worker with the marker in
  * `workerData`, it compiles the codebook from its JSON source and describes the items it claims.
@@ -14,10 +15,11 @@ import { availableParallelism } from 'node:os';
 import { compileCodebook, type Codebook, type CompiledCodebook } from '@codeweir/codebook';
 import type { CheckResult, ItemColumn } from '@codeweir/check';
 import { workerEntry } from '@codeweir/core';
-import type { DescribeResult } from './types.ts';
+import type { DescribeResult, PairDescription } from './types.ts';
 import { normalizeDescribeOptions, type DescribeOptions, type DescribeOptionsInput, type NormalizedDescribeOptions } from './options.ts';
 import { resolveWeight, weightsFor } from './weights.ts';
-import { describePairs } from './pairs.ts';
+import { describePairs, requestedPairs } from './pairs.ts';
+import { assemblePairs, claimPairs, sharePairs, type PairShare } from './pairs-parallel.ts';
 import { assembleDescription, describeItem, isContinuous, type ItemPart } from './describe.ts';
 import { designWeightName } from './design.ts';
 
@@ -36,8 +38,10 @@ interface Job {
   weights: Float64Array | undefined;
   opts: NormalizedDescribeOptions;
   next: Int32Array;
+  /** Whether a PairShare follows, to be claimed once the items are done. */
+  pairs: boolean;
 }
-type FromWorker = { name: string; part: ItemPart } | { done: true };
+type FromWorker = { name: string; part: ItemPart } | { pair: number; description: PairDescription } | { done: true };
 
 /** Options of {@link describeParallel}. */
 export interface DescribeThreads {
@@ -84,14 +88,15 @@ export async function describeParallel(
 ): Promise<DescribeResult> {
   const opts = normalizeDescribeOptions(options as DescribeOptionsInput);
   const weight = resolveWeight(result.store, codebook, designWeightName(codebook, opts));
-  // Pairs first: a bad pair name fails before any work on the items (as in describe).
-  const pairs = opts.pairs === 'all' || opts.pairs.length > 0 ? describePairs(result, codebook, opts) : [];
+  // Pairs checked first: a bad pair name fails before any work on the items (as in describe).
+  const pairNames = opts.pairs === 'all' || opts.pairs.length > 0 ? requestedPairs(result, codebook, opts) : [];
+  let pairs: PairDescription[] | undefined;
   const store = result.store;
   const heavy = codebook.items.filter((item) => isContinuous(item, store.columns[item.name]));
   const threads = how.threads ?? availableParallelism();
   const parts = new Map<string, ItemPart>();
   const one = (name: string): ItemPart => describeItem(codebook.byName.get(name)!, store.columns[name]!, result, opts, weightsFor(weight, name));
-  if (threads > 1 && heavy.length >= 2 && store.rows >= (how.minRows ?? DEFAULT_MIN_ROWS)) {
+  if (threads > 1 && Math.max(heavy.length, pairNames.length) >= 2 && store.rows >= (how.minRows ?? DEFAULT_MIN_ROWS)) {
     const next = new Int32Array(new SharedArrayBuffer(4));
     const job: Job = {
       items: heavy.map((item) => {
@@ -101,6 +106,7 @@ export async function describeParallel(
       weights: weight ? shared(weight.weights) : undefined,
       opts,
       next,
+      pairs: pairNames.length > 0,
     };
     const entry = workerEntry(import.meta.url, 'describe-worker.mjs');
     const init: WorkerInit = { marker: MARKER, source: codebook.source, codebookFile: codebook.file };
@@ -108,13 +114,16 @@ export async function describeParallel(
     const caller = how.useCallingThread ?? true;
     // Beside the calling thread threads - 1 workers, no more than there are items to share;
     // without it, at least one.
-    const nWorkers = caller ? Math.min(threads, heavy.length) - 1 : Math.max(1, Math.min(threads - 1, heavy.length));
+    const work = Math.max(heavy.length, pairNames.length);
+    const nWorkers = caller ? Math.min(threads, work) - 1 : Math.max(1, Math.min(threads - 1, work));
     for (let t = 0; t < nWorkers; t++) workers.push(new Worker(entry.file, { eval: entry.eval, workerData: init }));
+    const gotPairs = new Map<number, PairDescription>();
     const served = workers.map(
       (w) =>
         new Promise<void>((resolve) => {
           w.on('message', (m: FromWorker) => {
             if ('done' in m) resolve();
+            else if ('pair' in m) gotPairs.set(m.pair, m.description);
             else parts.set(m.name, m.part);
           });
           // A worker that fails or stops early: its unfinished items are described here below.
@@ -125,6 +134,14 @@ export async function describeParallel(
           w.postMessage(job);
         }),
     );
+    // The pairs' columns are sorted here while the workers take the items, then shared: a
+    // worker claims pairs once the items are gone.
+    let share: PairShare | undefined;
+    if (pairNames.length > 0) {
+      const sharedValues = new Map(job.items.map((i) => [i.name, i.values]));
+      share = sharePairs(result, codebook, opts, (name) => sharedValues.get(name));
+      for (const w of workers) w.postMessage(share);
+    }
     // The other items first, while the workers start; then the calling thread claims interval
     // and ratio items too (the workers' answers wait in their ports meanwhile).
     for (const item of codebook.items) {
@@ -135,9 +152,12 @@ export async function describeParallel(
       const name = heavy[k]!.name;
       parts.set(name, one(name));
     }
+    if (share !== undefined && caller) claimPairs(share, codebook, (k, pair) => gotPairs.set(k, pair));
     await Promise.all(served);
     await Promise.all(workers.map((w) => w.terminate()));
+    if (share !== undefined) pairs = assemblePairs(share, codebook, gotPairs);
   }
+  pairs ??= pairNames.length > 0 ? describePairs(result, codebook, opts) : [];
   return assembleDescription(result, codebook, opts, weight, pairs, (item) => parts.get(item.name) ?? one(item.name));
 }
 
@@ -149,6 +169,10 @@ function serve(init: WorkerInit): void {
   } catch {
     // The calling thread compiled the same source; were this to fail, it describes every item.
   }
+  const finish = () => {
+    port.postMessage({ done: true } satisfies FromWorker);
+    port.close();
+  };
   port.once('message', (job: Job) => {
     if (codebook) {
       for (let k = Atomics.add(job.next, 0, 1); k < job.items.length; k = Atomics.add(job.next, 0, 1)) {
@@ -158,8 +182,12 @@ function serve(init: WorkerInit): void {
         port.postMessage({ name, part } satisfies FromWorker);
       }
     }
-    port.postMessage({ done: true } satisfies FromWorker);
-    port.close();
+    if (!job.pairs) return finish();
+    // The pairs' share follows the job; its pairs are claimed once the items are gone.
+    port.once('message', (share: PairShare) => {
+      if (codebook) claimPairs(share, codebook, (pair, description) => port.postMessage({ pair, description } satisfies FromWorker));
+      finish();
+    });
   });
 }
 
