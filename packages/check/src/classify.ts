@@ -70,6 +70,13 @@ function isSpace(c: number): boolean {
   return c === 32 || c === 9 || c === 160;
 }
 
+/** Length of the longest key of `m` (-1 when empty): no longer text can be a key. */
+function longestKey(m: ReadonlyMap<string, unknown>): number {
+  let n = -1;
+  for (const k of m.keys()) if (k.length > n) n = k.length;
+  return n;
+}
+
 /** Largest span of integer values put in a direct lookup table (entries, 4 bytes each). */
 const MAX_TABLE_SPAN = 1 << 16;
 
@@ -143,7 +150,11 @@ function compileItem(item: CompiledItem, out: CellOut, options: CheckOptions): I
     return cell;
   };
 
+  // A text longer than every missing code cannot be one: the Map lookup (which hashes the whole
+  // text) is skipped, which matters for free text, where almost no cell is a missing code.
+  const missLen = longestKey(missingByText);
   const textMissing = (t: string): boolean => {
+    if (t.length > missLen) return false;
     const m = missingByText.get(t);
     if (m === undefined) return false;
     out.kind = KIND_NUMBER.get(m.kind)!;
@@ -257,13 +268,14 @@ function compileItem(item: CompiledItem, out: CellOut, options: CheckOptions): I
   } else if (shape === 'coded') {
     // Text (or date-typed) codes: exact text of the code.
     const codeByText = item.codeByText;
+    const codeLen = longestKey(codeByText);
     classify = (cell) => {
       const t = trim(cell);
       if (t === null) {
         out.kind = 0;
         return MISSING;
       }
-      const idx = codeByText.get(t);
+      const idx = t.length > codeLen ? undefined : codeByText.get(t);
       if (idx !== undefined) {
         out.code = idx;
         out.text = t;

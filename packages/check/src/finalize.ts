@@ -116,15 +116,17 @@ export function mergePartials(
   const unique: Array<UniqueEntries | null> = first.unique.map((u0, i) => {
     if (u0 === null) return null;
     const keepIds = u0.ids !== undefined;
-    const table = u0.kind === 'number' ? new NumberFirsts(keepIds, parts.reduce((s, p) => s + p.unique[i]!.rows.length, 0)) : new TextFirsts(keepIds);
+    const expected = parts.reduce((s, p) => s + p.unique[i]!.rows.length, 0);
+    const table = u0.kind === 'number' ? new NumberFirsts(keepIds, expected) : new TextFirsts(keepIds, expected);
     const name = codebook.items[i]!.name;
     parts.forEach((p, k) => {
       const e = p.unique[i]!;
+      const hashes = e.kind === 'text' ? e.hashes : undefined;
       for (let j = 0; j < e.rows.length; j++) {
         const key = e.keys[j]!;
         const row = e.rows[j]! + offs[k]!;
         const id = e.ids ? e.ids[j]! : '';
-        const fresh = table instanceof NumberFirsts ? table.add(key as number, row, id) : table.add(key as string, row, id);
+        const fresh = table instanceof NumberFirsts ? table.add(key as number, row, id) : table.add(key as string, row, id, hashes?.[j]);
         if (fresh) continue;
         findingCounts[i * NR + R['duplicate-id']]++;
         ruleTotals[R['duplicate-id']]++;

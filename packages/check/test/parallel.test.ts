@@ -10,7 +10,7 @@ import { mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
 import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { splitDelivery } from '@codeweir/read';
+import { openDeliveryRange, splitDelivery } from '@codeweir/read';
 import { isCodeweirError } from '@codeweir/core';
 import { checkFile, checkFileParallel, type CheckResult } from '../src/index.ts';
 import { codebook } from './helpers.ts';
@@ -145,6 +145,34 @@ describe('checkFileParallel', () => {
     if (isCodeweirError(one) && isCodeweirError(many)) {
       expect([many.code, many.line, many.column, many.message]).toEqual([one.code, one.line, one.column, one.message]);
     }
+  });
+
+  it('gives the single-thread result when the guessed cuts fall inside quoted fields (the check is redone on one thread)', async () => {
+    // Every note pastes whole rows of the file inside its quotes, so the cut guessed near a
+    // target (splitDelivery's guess option) lands inside a quoted field; the range before it
+    // must fail to read, and the result must still be the single-thread one.
+    const lines = ['id,team,employed,hours,trips,note,phone,w'];
+    for (let i = 0; i < 2000; i++) {
+      const pasted = Array.from({ length: 6 }, (_, k) => `${i * 10 + k},1,1,10,1,x,q${k},100`).join('\n');
+      lines.push(`${i},${(i % 3) + 1},1,${i % 90},2,"pasted:\n${pasted}",p${i % 1500},150`);
+    }
+    const pasted = join(dir, 'pasted.csv');
+    await writeFile(pasted, lines.join('\n') + '\n');
+    const guessed = await splitDelivery(pasted, 8, {}, { numbered: false, guess: true });
+    const failures = await Promise.all(
+      guessed.map(async (r) => {
+        try {
+          for await (const _ of (await openDeliveryRange(pasted, r)).batches());
+          return undefined;
+        } catch (e) {
+          return (e as { code?: string }).code;
+        }
+      }),
+    );
+    expect(failures).toContain('CW_CSV_UNCLOSED_QUOTE');
+    const one = await checkFile(pasted, cb);
+    expect(one.summary.rows).toBe(2000);
+    same(await checkFileParallel(pasted, cb, { threads: 2, minParallelBytes: 0, rangesPerThread: 4 }), one);
   });
 
   it('rejects a thread count that is not a whole number of at least 1', async () => {

@@ -35,7 +35,27 @@ export interface SplitOptions {
    * meaning "unknown", and their rows are numbered from 1 by whoever reads them.
    */
   numbered?: boolean;
+  /**
+   * Place each cut by looking only near it (default false), instead of scanning the file from
+   * the header on: the cut goes after the first newline at or past the target from which the
+   * next {@link GUESS_ROWS} rows read as complete rows of exactly the header's field count,
+   * quoted strictly as RFC 4180 has it, within {@link GUESS_WINDOW} bytes. Only with
+   * `numbered: false`. Such a cut is a guess that a newline lies outside any quoted field, and
+   * the guess is checked by reading: if it is wrong, the newline lies inside a quoted field that
+   * opens in the range before the cut and does not close before the range's end, so reading that
+   * range (which starts at a true row boundary, the first one at the header's end) fails with
+   * CW_CSV_UNCLOSED_QUOTE. A caller that passes `guess` must therefore read every range and,
+   * when any range fails, redo the work without these ranges (one thread from the start);
+   * when every range reads, every cut was a true row boundary. When some target has no
+   * candidate the whole split falls back to the full scan, whose cuts are sound as they stand.
+   */
+  guess?: boolean;
 }
+
+/** Rows that must read cleanly after a guessed cut (see {@link SplitOptions.guess}). */
+export const GUESS_ROWS = 4;
+/** Bytes after a target searched for a guessed cut. */
+export const GUESS_WINDOW = 256 * 1024;
 
 async function scanBoundaries(layout: Layout, targets: number[], numbered: boolean): Promise<SplitRange[]> {
   const { fh } = await openForRead(layout.file);
@@ -122,6 +142,92 @@ async function scanBoundaries(layout: Layout, targets: number[], numbered: boole
 }
 
 /**
+ * Whether the bytes from `at` read as `rows` whole rows of exactly `fields` fields each (or as
+ * whole rows of that count up to the end of the file, when `eof` and the buffer ends there),
+ * quoted strictly as RFC 4180 has it: a field that starts with a quote runs to its closing
+ * quote (a doubled quote stays inside), which a delimiter or row end must follow, and no other
+ * field holds a quote; a row ends at a newline outside quotes. Read from a newline that is in
+ * fact inside a quoted field, the closing quote of that field shows up in the wrong place (or
+ * the field counts come out wrong), which is what makes the guess a good one.
+ */
+function readsAsRows(buf: Uint8Array, n: number, at: number, rows: number, fields: number, delim: number, nl: number, eof: boolean): boolean {
+  let i = at;
+  for (let r = 0; r < rows; r++) {
+    if (i >= n) return eof && r > 0;
+    let count = 1;
+    for (;;) {
+      if (buf[i] === QUOTE) {
+        // Quoted: to the closing quote, past doubled ones.
+        for (i++; ; i += 2) {
+          const q = buf.indexOf(QUOTE, i);
+          if (q === -1 || q >= n) return false;
+          i = q;
+          if (q + 1 >= n || buf[q + 1] !== QUOTE) break;
+        }
+        i++;
+        // RFC 4180: the closing quote ends the field.
+        if (i < n && buf[i] !== delim && buf[i] !== nl && !(nl === LF && buf[i] === CR && i + 1 < n && buf[i + 1] === LF)) return false;
+      }
+      // The rest of the field, up to a delimiter or a row end; RFC 4180 has no quote in it.
+      for (; i < n && buf[i] !== delim && buf[i] !== nl; i++) if (buf[i] === QUOTE) return false;
+      if (i >= n) {
+        if (!eof) return false;
+        return count === fields;
+      }
+      if (buf[i] === delim) {
+        count++;
+        i++;
+        continue;
+      }
+      i++;
+      if (nl === CR && buf[i] === LF) i++;
+      break;
+    }
+    if (count !== fields) return false;
+  }
+  return true;
+}
+
+/**
+ * Cuts placed by looking only near each target ({@link SplitOptions.guess}); undefined when
+ * some target has no candidate in its window.
+ */
+async function guessBoundaries(layout: Layout, targets: number[]): Promise<SplitRange[] | undefined> {
+  const { fh } = await openForRead(layout.file);
+  const delim = layout.delimiter.charCodeAt(0);
+  const nl = layout.newline === 'cr' ? CR : LF;
+  const fields = layout.header.length;
+  const ranges: SplitRange[] = [{ start: layout.dataStart, end: layout.size, firstRow: 0, firstLine: 0 }];
+  const buf = new Uint8Array(GUESS_WINDOW);
+  try {
+    for (const target of targets) {
+      const from = Math.max(target - 1, (ranges.at(-1) as SplitRange).start);
+      if (from >= layout.size) break;
+      const { bytesRead: n } = await fh.read(buf, 0, Math.min(buf.length, layout.size - from), from);
+      const eof = from + n >= layout.size;
+      let cut = -1;
+      for (let j = buf.indexOf(nl); j !== -1 && j < n; j = buf.indexOf(nl, j + 1)) {
+        let after = j + 1;
+        if (nl === CR && after < n && buf[after] === LF) after++;
+        if (nl === CR && after >= n && !eof) break;
+        if (from + after < target || from + after <= (ranges.at(-1) as SplitRange).start) continue;
+        if (from + after >= layout.size) break;
+        if (readsAsRows(buf, n, after, GUESS_ROWS, fields, delim, nl, eof)) {
+          cut = from + after;
+          break;
+        }
+      }
+      if (cut === -1) return undefined;
+      (ranges.at(-1) as SplitRange).end = cut;
+      ranges.push({ start: cut, end: layout.size, firstRow: 0, firstLine: 0 });
+    }
+  } finally {
+    await fh.close();
+  }
+  return ranges;
+}
+
+/**
  * Splits the data rows of a delivery (after the header) into at most `parts` byte ranges of
  * about equal size (or, when `parts` is a list of positive numbers, of about those relative
  * sizes, in order), each starting and ending at a row boundary (see the module comment for why
@@ -152,5 +258,10 @@ export async function splitDelivery(path: string, parts: number | number[], opti
     const t = layout.dataStart + Math.round((acc * span) / total);
     if (t > (targets.at(-1) ?? layout.dataStart)) targets.push(t);
   }
-  return scanBoundaries(layout, targets, split.numbered ?? true);
+  const numbered = split.numbered ?? true;
+  if (split.guess === true && !numbered) {
+    const guessed = await guessBoundaries(layout, targets);
+    if (guessed !== undefined) return guessed;
+  }
+  return scanBoundaries(layout, targets, numbered);
 }

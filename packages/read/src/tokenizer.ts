@@ -143,6 +143,9 @@ export class Tokenizer {
   /** Cached index of the next delimiter, same scheme. */
   private nd = -1;
   private ndFrom = Number.MAX_SAFE_INTEGER;
+  /** Cached index of the next row terminator character, same scheme (quoted rows ask for it at every field). */
+  private nn = -1;
+  private nnFrom = Number.MAX_SAFE_INTEGER;
   private readonly delim: string;
   private readonly delimCode: number;
   private readonly nl: string;
@@ -177,6 +180,7 @@ export class Tokenizer {
     this.final = final;
     this.nqFrom = Number.MAX_SAFE_INTEGER;
     this.ndFrom = Number.MAX_SAFE_INTEGER;
+    this.nnFrom = Number.MAX_SAFE_INTEGER;
   }
 
   /** Characters held but not yet consumed (the start of an unfinished row). */
@@ -399,7 +403,11 @@ export class Tokenizer {
   /** Index of the next delimiter or row terminator at or after `p`, or -1. */
   private fieldEnd(p: number): number {
     const d = this.nextDelim(p);
-    const l = this.text.indexOf(this.nl, p);
+    if (p < this.nnFrom || (this.nn !== -1 && this.nn < p)) {
+      this.nn = this.text.indexOf(this.nl, p);
+      this.nnFrom = p;
+    }
+    const l = this.nn;
     if (d === -1) return l;
     if (l === -1) return d;
     return d < l ? d : l;

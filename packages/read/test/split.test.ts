@@ -4,6 +4,8 @@ import { readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { openDelivery, openDeliveryRange, splitDelivery } from '../src/index.ts';
+import { GUESS_ROWS, GUESS_WINDOW } from '../src/split.ts';
+import { seededRandom } from '@codeweir/core';
 import { collect, oracle } from './helpers.ts';
 
 let dir = '';
@@ -142,5 +144,116 @@ describe('splitDelivery', () => {
     expect(ranges[0]!.end - ranges[0]!.start).toBe(3000);
     expect(ranges[1]!.firstRow).toBe(751);
     await expect(splitDelivery(p, [1, 0])).rejects.toMatchObject({ code: 'CW_USAGE' });
+  });
+});
+
+/**
+ * Guessed cuts (`guess: true`): a cut is placed by looking only near its target, and the claim
+ * to check is the one the option documents: either every range reads and the ranges together
+ * give exactly the rows of the whole file (csv-parse 7, the oracle, agreeing with the whole
+ * read), or the guess fell inside a quoted field and reading the range before that cut fails
+ * with CW_CSV_UNCLOSED_QUOTE. First principles: a newline outside quotes always ends a row.
+ */
+describe('splitDelivery with guessed cuts', () => {
+  /** Reads every range; the rows in order, or the error code of the first range that fails. */
+  async function readAll(path: string, ranges: Array<{ start: number; end: number }>, options: { blockSize?: number; encoding?: 'windows-1252' } = {}) {
+    const rows: string[][] = [];
+    for (const range of ranges) {
+      try {
+        rows.push(...(await collect(await openDeliveryRange(path, range, options))).rows);
+      } catch (e) {
+        return { error: (e as { code?: string }).code };
+      }
+    }
+    return { rows };
+  }
+
+  /** Fields that trap a splitter: line breaks (LF and CRLF) and delimiters in quotes, doubled quotes, stray quotes, multi-byte text. */
+  const FIELDS = ['plain', '"two\nlines"', '"a,b"', '"say ""hi"",\r\nthen"', '5" pipe', 'Zoë 😀 日本', '"\n"', '""', ''];
+
+  function randomFile(seed: number, rows: number, cols: number, eol: string): string {
+    const rand = seededRandom(seed);
+    let out = Array.from({ length: cols }, (_, i) => `c${i}`).join(',') + eol;
+    for (let r = 0; r < rows; r++) out += Array.from({ length: cols }, () => FIELDS[Math.floor(rand() * FIELDS.length)]).join(',') + eol;
+    return out;
+  }
+
+  it('either reads to exactly the whole file or fails on the range before a wrong cut (seeded files, LF and CRLF, many block sizes)', async () => {
+    let readCleanly = 0;
+    for (let seed = 1; seed <= 24; seed++) {
+      const eol = seed % 2 ? '\n' : '\r\n';
+      // Two fields or more, so no row is a blank line (which csv-parse cannot tell from `""`).
+      const text = randomFile(seed, 400, 2 + (seed % 4), eol);
+      const p = join(dir, `guess-${seed}.csv`);
+      writeFileSync(p, text);
+      const whole = await collect(await openDelivery(p));
+      expect(whole.rows).toEqual(oracle(text, ',').rows);
+      for (const [parts, blockSize] of [[3, 7], [8, 64], [20, undefined]] as const) {
+        const ranges = await splitDelivery(p, parts, { blockSize }, { numbered: false, guess: true });
+        for (let k = 1; k < ranges.length; k++) expect(ranges[k]!.start).toBe(ranges[k - 1]!.end);
+        const got = await readAll(p, ranges, { blockSize });
+        if (got.rows) {
+          readCleanly++;
+          expect(got.rows).toEqual(whole.rows);
+        } else expect(got.error).toBe('CW_CSV_UNCLOSED_QUOTE');
+      }
+    }
+    // Nearly every split of such files reads cleanly (a wrong guess costs a rerun on one thread,
+    // so the option is worth having only if wrong guesses are rare); 72 splits were made.
+    expect(readCleanly).toBeGreaterThanOrEqual(66);
+  });
+
+  it('falls for rows pasted into a quoted field, and the range before that cut then fails', async () => {
+    // A quoted note holds more than GUESS_ROWS lines that look like rows of the file (3 fields):
+    // the guess takes the first of them, which is inside the quote.
+    const pasted = Array.from({ length: GUESS_ROWS + 2 }, (_, i) => `${i},x,y`).join('\n');
+    const rows = Array.from({ length: 200 }, (_, i) => `${i},a,b`);
+    rows[100] = `100,"${pasted}",b`;
+    const text = 'id,note,n\n' + rows.join('\n') + '\n';
+    const p = join(dir, 'pasted.csv');
+    writeFileSync(p, text);
+    const target = text.indexOf(pasted) + 2;
+    const share = (target - 10) / (text.length - 10);
+    const ranges = await splitDelivery(p, [share, 1 - share], {}, { numbered: false, guess: true });
+    expect(ranges).toHaveLength(2);
+    expect(ranges[1]!.start).toBeGreaterThan(text.indexOf(pasted));
+    expect(ranges[1]!.start).toBeLessThan(text.indexOf(pasted) + pasted.length);
+    await expect(collect(await openDeliveryRange(p, ranges[0]!))).rejects.toMatchObject({ code: 'CW_CSV_UNCLOSED_QUOTE' });
+    // The full scan puts the cut after the quoted field instead.
+    const exact = await splitDelivery(p, [share, 1 - share], {}, { numbered: false });
+    expect((await readAll(p, exact)).rows).toEqual((await collect(await openDelivery(p))).rows);
+  });
+
+  it('falls back to the full scan when no row near a target has the header\'s field count', async () => {
+    // Every data row has 2 fields under a 3-field header: no candidate passes, so the cuts are the full scan's.
+    const text = 'a,b,c\n' + Array.from({ length: 3000 }, (_, i) => `${i},"q\n${i}"`).join('\n') + '\n';
+    const p = join(dir, 'ragged-all.csv');
+    writeFileSync(p, text);
+    const guessed = await splitDelivery(p, 5, {}, { numbered: false, guess: true });
+    const exact = await splitDelivery(p, 5, {}, { numbered: false });
+    expect(guessed).toEqual(exact);
+  });
+
+  it('finds row boundaries in CR files, windows-1252 bytes and rows longer than the search window', async () => {
+    // CR alone ends rows; a CR inside quotes is data. windows-1252 bytes 0x80-0x9F and 0xE9 never hold a newline.
+    const cr = 'id,t\r' + Array.from({ length: 500 }, (_, i) => `${i},"l\r${i}"`).join('\r') + '\r';
+    const pc = join(dir, 'cr.csv');
+    writeFileSync(pc, cr);
+    const crRanges = await splitDelivery(pc, 6, {}, { numbered: false, guess: true });
+    expect(crRanges.length).toBe(6);
+    expect((await readAll(pc, crRanges)).rows).toEqual((await collect(await openDelivery(pc))).rows);
+
+    const w = Buffer.concat([Buffer.from('id,t\n'), ...Array.from({ length: 800 }, (_, i) => Buffer.concat([Buffer.from(`${i},"caf`), Buffer.from([0xe9, 0x80, 0x0a, 0x93]), Buffer.from('x"\n')]))]);
+    const pw = join(dir, 'cp1252.csv');
+    writeFileSync(pw, w);
+    const wRanges = await splitDelivery(pw, 4, { encoding: 'windows-1252' }, { numbered: false, guess: true });
+    expect(wRanges.length).toBe(4);
+    expect((await readAll(pw, wRanges, { encoding: 'windows-1252' })).rows).toEqual((await collect(await openDelivery(pw, { encoding: 'windows-1252' }))).rows);
+
+    // Rows of 100 KiB: at most two fit in the window, so no candidate has GUESS_ROWS rows after it; the full scan decides.
+    const long = 'a,b\n' + Array.from({ length: 12 }, (_, i) => `${i},"${'z'.repeat(GUESS_WINDOW / 2.5)}"`).join('\n') + '\n';
+    const pl = join(dir, 'long.csv');
+    writeFileSync(pl, long);
+    expect(await splitDelivery(pl, 3, {}, { numbered: false, guess: true })).toEqual(await splitDelivery(pl, 3, {}, { numbered: false }));
   });
 });
