@@ -84,6 +84,37 @@ const schemaBesideBundle: Plugin = {
   },
 };
 
+const STRUCTURE_IMPORT = "import { structureProblems } from './schema-problems.ts';";
+/** The zod side of loading a codebook, bundled on its own (CommonJS, so it can be required). */
+const ZOD_SIDE = 'codebook-zod.cjs';
+
+/**
+ * zod (with its locales) and the codebook's zod schema took a quarter of the start-up of a
+ * command reading a codebook, though a valid codebook needs only the shipped JSON Schema's
+ * validator (`packages/codebook/src/structure.ts`). In the bundle, every import of the codebook
+ * package resolves to its entry without the zod schema (`runtime.ts`; a bundled module importing
+ * a zod value from the package then fails the build), and the zod side of the structural stage
+ * (`schema-problems.ts`, zod itself) is a file of its own beside the bundle, required on first
+ * use: a command reading a valid codebook neither parses nor evaluates it. Library consumers
+ * import the package's own index and are unaffected.
+ */
+const zodOnlyWhenInvalid: Plugin = {
+  name: 'zod-only-when-invalid',
+  setup(b) {
+    b.onResolve({ filter: /^@codeweir\/codebook$/ }, () => ({ path: join(ROOT, 'packages/codebook/src/runtime.ts') }));
+    b.onLoad({ filter: /codebook[\\/]src[\\/]structure\.ts$/ }, (args) => {
+      const text = readFileSync(args.path, 'utf8');
+      if (!text.includes(STRUCTURE_IMPORT)) throw new Error('scripts/bundle.ts: the import of structureProblems in packages/codebook/src/structure.ts changed; update the build.');
+      const lazy =
+        "import { createRequire as zodSideRequire } from 'node:module';\n" +
+        "import type { structureProblems as StructureProblems } from './schema-problems.ts';\n" +
+        'let zodSide: { structureProblems: typeof StructureProblems } | undefined;\n' +
+        `const structureProblems: typeof StructureProblems = (data, errors) => (zodSide ??= zodSideRequire(import.meta.url)('./${ZOD_SIDE}')).structureProblems(data, errors);`;
+      return { contents: text.replace(STRUCTURE_IMPORT, lazy), loader: 'ts' };
+    });
+  },
+};
+
 /**
  * The CLI's argument parser measures every line of a command's help text after each command
  * it runs, with string-width, whose per-string Unicode segmentation made up much of a short
@@ -119,7 +150,7 @@ export const asciiWidthFirst: Plugin = {
  */
 export async function buildBundle(force = false, outdir = BUNDLE_DIR, minify = true): Promise<void> {
   const cli = join(outdir, 'codeweir.mjs');
-  const workers = [join(outdir, 'index.mjs'), join(outdir, 'check-worker.mjs'), join(outdir, 'describe-worker.mjs')];
+  const workers = [join(outdir, 'index.mjs'), join(outdir, 'check-worker.mjs'), join(outdir, 'describe-worker.mjs'), join(outdir, ZOD_SIDE)];
   const stale = (f: string): boolean => force || !existsSync(f) || statSync(f).mtimeMs < newestSource(join(ROOT, 'packages'));
   if (!stale(cli) && !workers.some(stale)) return;
   mkdirSync(outdir, { recursive: true });
@@ -149,9 +180,21 @@ export async function buildBundle(force = false, outdir = BUNDLE_DIR, minify = t
     external: [...BUNDLE_EXTERNAL],
     // The workspace packages are bundled from their TypeScript source (their `source` export).
     conditions: ['source'],
-    plugins: [schemaBesideBundle, asciiWidthFirst],
+    plugins: [schemaBesideBundle, zodOnlyWhenInvalid, asciiWidthFirst],
     // CommonJS dependencies bundled into ESM call require() for Node's built-ins.
     banner: { js: "import { createRequire as __cwRequire } from 'node:module'; const require = __cwRequire(import.meta.url);" },
+  });
+  await build({
+    entryPoints: [join(ROOT, 'packages/codebook/src/schema-problems.ts')],
+    outfile: join(outdir, ZOD_SIDE),
+    bundle: true,
+    platform: 'node',
+    format: 'cjs',
+    target: 'node20',
+    sourcemap: true,
+    minify,
+    logLevel: 'warning',
+    conditions: ['source'],
   });
 }
 

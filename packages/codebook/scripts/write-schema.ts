@@ -5,7 +5,7 @@
  */
 import { fileURLToPath } from 'node:url';
 import { writeFileAtomic } from '@codeweir/core';
-import { schemaFileText } from '../src/json-schema.ts';
+import { schemaFileText } from '../src/schema.ts';
 
 const target = fileURLToPath(new URL('../codebook.schema.json', import.meta.url));
 await writeFileAtomic(target, schemaFileText());

@@ -20,6 +20,12 @@ export type MissingKind =
   | 'omitted';
 /** Kinds of missingness counted in tables: every declared kind plus an empty cell. */
 export type MissingTally = MissingKind | 'blank';
+// The enumerations of the format, here rather than beside the zod schema so that code which
+// only reads compiled codebooks does not load zod.
+export const ITEM_TYPES = ['integer', 'decimal', 'text', 'date'] as const satisfies readonly ItemType[];
+export const LEVELS = ['nominal', 'ordinal', 'interval', 'ratio'] as const satisfies readonly Level[];
+export const ROLES = ['item', 'id', 'group', 'weight'] as const satisfies readonly Role[];
+export const RULE_SEVERITIES = ['error', 'warning'] as const;
 export const MISSING_KINDS: readonly MissingKind[] = [
   'dont-know',
   'refused',

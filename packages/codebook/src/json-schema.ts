@@ -1,21 +1,24 @@
 /**
  * The shipped JSON Schema file and its validator. Loading a codebook validates it against the
- * committed `codebook.schema.json` with ajv as well as against the zod schema, so what an editor
- * shows for a file and what codeweir says about it cannot drift apart unnoticed.
+ * committed `codebook.schema.json` with ajv, and against the zod schema whenever ajv rejects it
+ * (see `structure.ts`), so what an editor shows for a file and what codeweir says about it
+ * cannot drift apart unnoticed. Nothing here loads zod.
  */
 import { readFileSync } from 'node:fs';
 import { Ajv, type ErrorObject, type ValidateFunction } from 'ajv';
-import { codebookJsonSchema } from './schema.ts';
 
 /** Absolute URL of the shipped schema file (package root). */
 export const SCHEMA_FILE_URL = new URL('../codebook.schema.json', import.meta.url);
 
+let parsed: Record<string, unknown> | undefined;
+
 /**
- * The exact text `scripts/write-schema.ts` writes: the generated schema, two-space indented,
- * newline-terminated. Pure; cheap.
+ * The shipped schema file, parsed on first use and cached (do not modify it). Throws when the
+ * file is missing, which only a broken install can cause.
  */
-export function schemaFileText(): string {
-  return JSON.stringify(codebookJsonSchema(), null, 2) + '\n';
+export function shippedSchema(): Record<string, unknown> {
+  parsed ??= JSON.parse(readFileSync(SCHEMA_FILE_URL, 'utf8')) as Record<string, unknown>;
+  return parsed;
 }
 
 let validator: ValidateFunction | undefined;
@@ -27,7 +30,7 @@ let validator: ValidateFunction | undefined;
  */
 export function shippedSchemaValidator(): ValidateFunction {
   if (!validator) {
-    const schema = JSON.parse(readFileSync(SCHEMA_FILE_URL, 'utf8')) as Record<string, unknown>;
+    const schema = shippedSchema();
     // allErrors so the lint report lists every structural problem, not only the first.
     validator = new Ajv({ allErrors: true, strict: false }).compile(schema);
   }

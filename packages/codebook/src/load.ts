@@ -1,14 +1,13 @@
 /**
  * Loading a codebook file: read, locate JSON syntax errors, validate against the shipped JSON
- * Schema (ajv) and the zod schema, run the meaning checks, compile.
+ * Schema (ajv; the zod schema gives the problems of a codebook it rejects), run the meaning
+ * checks, compile.
  */
 import { readFile, stat } from 'node:fs/promises';
 import { CodeweirError } from '@codeweir/core';
 import type { CompiledCodebook, LoadResult, Problem } from './compiled.ts';
-import { CodebookSchema } from './schema.ts';
-import { validateWithShippedSchema } from './json-schema.ts';
+import { checkStructure } from './structure.ts';
 import { lineColumn, scanJson } from './json-scan.ts';
-import { ajvErrorsToProblems, zodIssuesToProblems } from './schema-problems.ts';
 import { analyseCodebook } from './checks/index.ts';
 import { buildCompiled, type CompileOptions } from './compile.ts';
 
@@ -74,9 +73,9 @@ function charOffset(src: string, valueStarts: ReadonlyMap<string, number>, p: Pr
  * item or a rule, a message that names that item or rule, and are ordered by position in the
  * file. A UTF-8 byte-order mark is accepted. Labels are resolved to `options.lang`.
  *
- * Stages: JSON syntax (`json-syntax`, `duplicate-key`); schema, zod and the shipped JSON Schema
- * via ajv (unknown fields with a "did you mean" hint); meaning checks (see `checks/`). Meaning
- * checks run only on a schema-valid codebook.
+ * Stages: JSON syntax (`json-syntax`, `duplicate-key`); schema, the shipped JSON Schema via ajv
+ * and, for a codebook it rejects, the zod schema (unknown fields with a "did you mean" hint);
+ * meaning checks (see `checks/`). Meaning checks run only on a schema-valid codebook.
  * Cost: linear in the text plus one CEL parse and type check per expression. Never throws.
  */
 export function parseCodebook(text: string, file?: string, options: LoadOptions = {}): LoadResult {
@@ -90,22 +89,16 @@ export function parseCodebook(text: string, file?: string, options: LoadOptions 
   const problems: CodebookProblem[] = scan.duplicateKeys.map((d) =>
     problem('duplicate-key', d.pointer, `field "${d.pointer.slice(d.pointer.lastIndexOf('/') + 1)}" appears twice in the same object; only the last one would count`),
   );
-  const zod = CodebookSchema.safeParse(data);
-  const ajvErrors = validateWithShippedSchema(data);
+  const structure = checkStructure(data);
   let result: LoadResult;
-  if (!zod.success) {
-    problems.push(...zodIssuesToProblems(zod.error.issues, data));
-    result = { ok: false, problems };
-  } else if (ajvErrors.length > 0) {
-    // The zod schema accepted what the shipped JSON Schema rejects: the file is stale or was
-    // edited by hand. Report it rather than let the editor and codeweir disagree silently.
-    problems.push(...ajvErrorsToProblems(ajvErrors, data));
+  if (!structure.ok) {
+    problems.push(...structure.problems);
     result = { ok: false, problems };
   } else {
-    const analysis = analyseCodebook(zod.data);
+    const analysis = analyseCodebook(structure.codebook);
     problems.push(...analysis.problems);
     const refused = hasErrors(problems) || (options.strict === true && problems.length > 0);
-    result = refused ? { ok: false, problems } : { ok: true, codebook: buildCompiled(zod.data, analysis.expressions, file, options.lang === undefined ? {} : { lang: options.lang }), problems };
+    result = refused ? { ok: false, problems } : { ok: true, codebook: buildCompiled(structure.codebook, analysis.expressions, file, options.lang === undefined ? {} : { lang: options.lang }), problems };
   }
   const located = result.problems.map((p) => {
     const offset = offsetOf(scan.positions, p.path);

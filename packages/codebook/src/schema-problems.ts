@@ -174,3 +174,14 @@ export function ajvErrorsToProblems(errors: readonly ErrorObject[], data: unknow
     return problem('schema', e.instancePath, `${e.message ?? 'does not match the schema'} (JSON Schema)`);
   });
 }
+
+/**
+ * Problems of a codebook that the shipped JSON Schema rejects with `ajvErrors`: zod's issues
+ * when the zod schema rejects it too, else ajv's errors, since the zod schema accepting what
+ * the shipped JSON Schema rejects means the file is stale or was edited by hand (reported
+ * rather than letting the editor and codeweir disagree silently). Cost: one zod parse.
+ */
+export function structureProblems(data: unknown, ajvErrors: readonly ErrorObject[]): CodebookProblem[] {
+  const zod = CodebookSchema.safeParse(data);
+  return zod.success ? ajvErrorsToProblems(ajvErrors, data) : zodIssuesToProblems(zod.error.issues, data);
+}

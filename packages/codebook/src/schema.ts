@@ -9,12 +9,7 @@
  * view and codeweir must agree on what the schema alone accepts.
  */
 import { z } from 'zod';
-import { MISSING_KINDS, type ItemType, type Level, type MissingKind, type Role } from './compiled.ts';
-
-export const ITEM_TYPES = ['integer', 'decimal', 'text', 'date'] as const satisfies readonly ItemType[];
-export const LEVELS = ['nominal', 'ordinal', 'interval', 'ratio'] as const satisfies readonly Level[];
-export const ROLES = ['item', 'id', 'group', 'weight'] as const satisfies readonly Role[];
-export const RULE_SEVERITIES = ['error', 'warning'] as const;
+import { ITEM_TYPES, LEVELS, MISSING_KINDS, ROLES, RULE_SEVERITIES, type MissingKind } from './compiled.ts';
 
 const kinds = MISSING_KINDS as readonly MissingKind[] as [MissingKind, ...MissingKind[]];
 
@@ -191,4 +186,12 @@ export type Label = z.infer<typeof LabelSchema>;
 export function codebookJsonSchema(): Record<string, unknown> {
   const js = z.toJSONSchema(CodebookSchema, { target: 'draft-07' }) as Record<string, unknown>;
   return { ...js, title: 'codeweir codebook' };
+}
+
+/**
+ * The exact text `scripts/write-schema.ts` writes: the generated schema, two-space indented,
+ * newline-terminated. Pure; cheap.
+ */
+export function schemaFileText(): string {
+  return JSON.stringify(codebookJsonSchema(), null, 2) + '\n';
 }

@@ -66,3 +66,17 @@ export function lint(cb: unknown): ReturnType<typeof parseCodebook> {
 export function codesAndPaths(problems: readonly Problem[]): string[] {
   return problems.map((p) => `${p.code} ${p.path}`);
 }
+
+/** Every object in a JSON document, outermost first (for tests that edit one of them). */
+export function objectsIn(doc: unknown): Json[] {
+  const objects: Json[] = [];
+  const walk = (v: unknown) => {
+    if (Array.isArray(v)) v.forEach(walk);
+    else if (v && typeof v === 'object') {
+      objects.push(v as Json);
+      Object.values(v).forEach(walk);
+    }
+  };
+  walk(doc);
+  return objects;
+}

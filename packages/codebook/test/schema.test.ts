@@ -2,7 +2,7 @@ import { describe, it, expect } from 'vitest';
 import { readFileSync } from 'node:fs';
 import fc from 'fast-check';
 import { CodebookSchema, SCHEMA_FILE_URL, parseCodebook, schemaFileText, validateWithShippedSchema } from '../src/index.ts';
-import { household, lint, codesAndPaths, type Json } from './fixtures.ts';
+import { household, lint, codesAndPaths, objectsIn, type Json } from './fixtures.ts';
 
 describe('shipped JSON Schema', () => {
   it('is not stale: regenerating it from the zod schema gives the committed file', () => {
@@ -56,15 +56,7 @@ describe('ajv and zod agree', () => {
       fc.property(fc.nat(), fc.nat(), fc.integer({ min: 0, max: 2 }), junk, fc.string({ minLength: 1, maxLength: 8 }), (pick, pick2, op, value, key) => {
         const doc = household();
         // Collect every object in the document, then edit one of them.
-        const objects: Json[] = [];
-        const walk = (v: unknown) => {
-          if (Array.isArray(v)) v.forEach(walk);
-          else if (v && typeof v === 'object') {
-            objects.push(v as Json);
-            Object.values(v).forEach(walk);
-          }
-        };
-        walk(doc);
+        const objects = objectsIn(doc);
         const target = objects[pick % objects.length]!;
         const keys = Object.keys(target);
         const k = keys[pick2 % keys.length]!;
