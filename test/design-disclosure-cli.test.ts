@@ -78,14 +78,59 @@ suite('check --min-cell and --show-values (CLI)', () => {
     const shown = join(dir, 'out-show');
     await cli(['check', data, '--codebook', cb, '--out', shown, '--split-by', 'team', '--show-values'], dir);
     expect(await readFile(join(shown, 'by-team', '1', 'findings.csv'), 'utf8')).toMatch(/\bask\b/);
-    // Without --min-cell the confidential item's values are withheld all the same, ids are not.
+    // Without --min-cell the confidential item's values and the ids are withheld all the same.
     const plain = join(dir, 'out-plain');
     await cli(['check', data, '--codebook', cb, '--out', plain, '--split-by', 'team'], dir);
     const f = await readFile(join(plain, 'by-team', '1', 'findings.csv'), 'utf8');
     expect(f).not.toMatch(/\bask\b/);
-    expect(f).toMatch(/\bH\d+\b/);
+    expect(f).not.toMatch(/\bH\d+\b/);
     expect(await readFile(join(plain, 'missingness.csv'), 'utf8')).not.toContain('[s]');
   });
+
+  // First principles: the delivery above writes household H<i> on data row i + 1 (the header
+  // not counted), so every finding's id gives its row, and the withheld id must leave the row.
+  it('ids are withheld from the team folders by default, the row stays; --show-values shows them; the top-level log keeps them', async () => {
+    const [cb, data] = await delivery();
+    const plain = join(dir, 'ids-plain');
+    await cli(['check', data, '--codebook', cb, '--out', plain, '--split-by', 'team'], dir);
+    const top = (await readFile(join(plain, 'findings.csv'), 'utf8')).split('\r\n').slice(1).filter(Boolean);
+    const withIds = top.filter((l) => /^\d+,H\d+,/.test(l));
+    expect(withIds.length).toBeGreaterThan(0);
+    for (const l of withIds) {
+      const [row, id] = l.split(',');
+      expect(id).toBe(`H${Number(row) - 1}`);
+    }
+    const teamLines: string[] = [];
+    for (const team of ['1', '2']) teamLines.push(...(await readFile(join(plain, 'by-team', team, 'findings.csv'), 'utf8')).split('\r\n').slice(1).filter(Boolean));
+    expect(teamLines.length).toBe(top.filter((l) => /^[1-9]/.test(l)).length);
+    const rowsWithIds = new Set(withIds.map((l) => l.split(',')[0]));
+    for (const l of teamLines) {
+      const [row, id] = l.split(',');
+      expect(id).toBe('[withheld]');
+      expect(Number(row)).toBeGreaterThan(0);
+      rowsWithIds.delete(row);
+    }
+    expect(rowsWithIds.size).toBe(0);
+    const shown = join(dir, 'ids-show');
+    await cli(['check', data, '--codebook', cb, '--out', shown, '--split-by', 'team', '--show-values'], dir);
+    expect(await readFile(join(shown, 'by-team', '1', 'findings.csv'), 'utf8')).toMatch(/^\d+,H\d+,/m);
+    // The data manager's own log is the same with and without --show-values.
+    expect(await readFile(join(shown, 'findings.csv'), 'utf8')).toBe(await readFile(join(plain, 'findings.csv'), 'utf8'));
+    expect(await readFile(join(shown, 'findings.jsonl'), 'utf8')).toBe(await readFile(join(plain, 'findings.jsonl'), 'utf8'));
+  });
+
+  it('the report and its team pages withhold ids by default and keep the row; --show-values shows them', async () => {
+    const [cb, data] = await delivery();
+    const out = join(dir, 'ids-report.html');
+    await cli(['report', data, '--codebook', cb, '-o', out, '--split-by', 'team', '--quiet'], dir);
+    const pages = [await readFile(out, 'utf8'), ...(await Promise.all((await readdir(join(dir, 'ids-report-team'))).map((f) => readFile(join(dir, 'ids-report-team', f), 'utf8'))))];
+    for (const html of pages) expect(html).not.toMatch(/<code>H\d+<\/code>/);
+    // A team page's rows to fix: the row number, then the withheld id.
+    expect(pages.some((html) => /<td[^>]*>\d+<\/td><td[^>]*><code>\[withheld\]<\/code><\/td>/.test(html))).toBe(true);
+    const shown = join(dir, 'ids-report-shown.html');
+    await cli(['report', data, '--codebook', cb, '-o', shown, '--split-by', 'team', '--show-values', '--quiet'], dir);
+    expect(await readFile(shown, 'utf8')).toMatch(/<code>H\d+<\/code>/);
+  }, 120_000);
 
   it('--min-cell takes a whole number', async () => {
     const [cb, data] = await delivery();

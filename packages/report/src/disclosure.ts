@@ -11,7 +11,7 @@
  * (their statistics too). A suppressed count becomes NaN, which the report prints as "-", with
  * the legend of {@link disclosureSection}; charts of a suppressed table are left out (a bar's
  * height would give the count away), and scatter plots are left out (each point is a person).
- * Withheld: findings' values on withheld items and, with suppression, record ids; everything
+ * Withheld: findings' values on withheld items and record ids (unless values are shown); everything
  * but counts and missingness of a confidential item; pairs with a confidential item.
  */
 import { suppressCells, type CellState } from '@codeweir/stats';
