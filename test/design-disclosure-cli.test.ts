@@ -5,6 +5,7 @@ import { join } from 'node:path';
 import { cli } from './support/cli.ts';
 import { referenceFile, surveyReference } from './reference/survey-design.ts';
 import type { DescribeResult } from '../packages/describe/src/index.ts';
+import { eliminated, feasibleBounds, type Equation } from '../packages/stats/test/lp-attacker.ts';
 
 let dir = '';
 beforeAll(async () => {
@@ -184,10 +185,70 @@ suite('report --min-cell and --show-values (CLI)', () => {
     expect(await readFile(plain, 'utf8')).not.toContain('id="disclosure"');
   }, 120_000);
 
-  it('--min-cell with --split-by is refused before anything is read', async () => {
+  // First principles: a team page's counts of a code add up, over the team pages, to the main
+  // page's count, and a team's counts add up to its valid n; the attacker solves those
+  // equations (HiGHS) for every suppressed cell.
+  it('--min-cell with --split-by: the team pages share the main page\'s suppression, none can be recovered by adding them up', async () => {
     const [cb, data] = await demo();
-    const r = await cli(['report', data, '--codebook', cb, '-o', join(dir, 'x.html'), '--min-cell', '--split-by', 'team'], dir);
-    expect(r.code).toBe(2);
-    expect(r.err).toMatch(/--min-cell does not combine with --split-by/);
-  });
+    const out = join(dir, 'split-k.html');
+    const r = await cli(['report', data, '--codebook', cb, '-o', out, '--split-by', 'team', '--min-cell', '5', '--quiet'], dir);
+    expect([0, 1]).toContain(r.code);
+    const main = frequencyTables(await readFile(out, 'utf8'));
+    const teamDir = join(dir, 'split-k-team');
+    const teams = new Map<string, Map<string, FrequencyTable>>();
+    for (const f of (await readdir(teamDir)).filter((x) => x !== 'index.html')) {
+      const html = await readFile(join(teamDir, f), 'utf8');
+      expect(html).toMatch(/Counts from 1 to 4 are suppressed/);
+      teams.set(f, frequencyTables(html));
+    }
+    expect(teams.size).toBeGreaterThan(5);
+    let attacked = 0;
+    for (const [item, whole] of main) {
+      const eqs: Equation[] = [];
+      const cell = (v: number | null, name: string): { known: number } | { name: string } => (v === null ? { name } : { known: v });
+      const add = (parts: Array<{ known: number } | { name: string }>, total: { known: number } | { name: string }): void => {
+        let rhs = 0;
+        const terms: Array<[string, number]> = [];
+        for (const p of parts) 'known' in p ? (rhs -= p.known) : terms.push([p.name, 1]);
+        'known' in total ? (rhs += total.known) : terms.push([total.name, -1]);
+        if (terms.length > 0) eqs.push({ terms, rhs });
+      };
+      add(whole.counts.map((v, c) => cell(v, `main:${c}`)), cell(whole.n, 'main:n'));
+      const byCode: Array<Array<{ known: number } | { name: string }>> = whole.counts.map(() => []);
+      for (const [team, tables] of teams) {
+        const t = tables.get(item);
+        if (!t) continue;
+        for (const v of t.counts) expect(v === null || v === 0 || v >= 5, `${team} ${item} count ${v}`).toBe(true);
+        add(t.counts.map((v, c) => cell(v, `${team}:${c}`)), cell(t.n, `${team}:n`));
+        t.counts.forEach((v, c) => byCode[c]!.push(cell(v, `${team}:${c}`)));
+      }
+      byCode.forEach((parts, c) => add(parts, cell(whole.counts[c]!, `main:${c}`)));
+      if (eqs.length === 0) continue;
+      attacked++;
+      expect([...eliminated(eqs)], item).toEqual([]);
+      for (const [name, [lo, hi]] of feasibleBounds(eqs)) expect(hi - lo, `${item} ${name} in [${lo}, ${hi}]`).toBeGreaterThanOrEqual(1);
+    }
+    expect(attacked).toBeGreaterThan(0);
+  }, 240_000);
 });
+
+interface FrequencyTable {
+  n: number | null;
+  counts: Array<number | null>;
+}
+
+/** The frequency table of every item card of a report page: its valid n and each code's count (null: suppressed). */
+function frequencyTables(html: string): Map<string, FrequencyTable> {
+  const out = new Map<string, FrequencyTable>();
+  const value = (t: string): number | null => (t === '-' ? null : Number(t.replace(/,/g, '')));
+  for (const card of html.split('<article class="card" aria-labelledby="item-').slice(1)) {
+    const name = /<code>([^<]+)<\/code><\/h3>/.exec(card)?.[1];
+    const m = /<caption class="note">Percent of ([^ ]+) valid cells[^<]*<\/caption><thead>(.*?)<\/thead><tbody>(.*?)<\/tbody>/.exec(card.split('</article>')[0]!);
+    if (!name || !m) continue;
+    const heads = [...m[2]!.matchAll(/<th[^>]*>(.*?)<\/th>/g)].map((x) => x[1]);
+    const at = heads.indexOf('count');
+    const counts = m[3]!.split('</tr>').filter((x) => x.includes('<td')).map((row) => value([...row.matchAll(/<td[^>]*>(.*?)<\/td>/g)].map((x) => x[1]!)[at]!));
+    out.set(name, { n: value(m[1]!), counts });
+  }
+  return out;
+}

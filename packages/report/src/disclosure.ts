@@ -18,7 +18,8 @@ import { suppressCells, type CellState } from '@codeweir/stats';
 import { missingnessSuppression, withholdFindings, WITHHELD_MARK, type LineStates } from '@codeweir/check';
 import type { CheckSummary, GroupItemTally } from '@codeweir/check';
 import type { ItemDescription, PairDescription } from '@codeweir/describe';
-import { KINDS } from '@codeweir/check';
+import { KINDS, GROUP_INVALID, GROUP_MISSING } from '@codeweir/check';
+import { UNASSIGNED } from './teams.ts';
 import type { ReportInput } from './context.ts';
 import { escapeHtml as esc } from './escape.ts';
 
@@ -38,6 +39,8 @@ export interface DisclosureNote {
   suppressed: number;
   withheld: string[];
   unprotected: number;
+  /** A team page of a split report under suppression (it draws no histograms). */
+  teamPage?: boolean;
 }
 
 const clone = <T>(x: T): T => structuredClone(x);
@@ -65,6 +68,14 @@ function oneRow(counts: readonly number[], minCell: number, totalHidden: boolean
   return suppressCells([counts], minCell, { rows: totalHidden ? 'shown' : 'fixed', columns: 'hidden' }, { rowTotals: [totalHidden] }).cells[0]!;
 }
 
+/** A frequency row's count and everything made from it, as suppressed. */
+function hideFrequency(f: NonNullable<ItemDescription['frequencies']>[number]): void {
+  f.count = Number.NaN;
+  f.percent = Number.NaN;
+  if (f.weightedCount !== undefined) f.weightedCount = Number.NaN;
+  if (f.weightedPercent !== undefined) f.weightedPercent = Number.NaN;
+}
+
 function suppressItem(d: ItemDescription, minCell: number, validHidden: boolean): number {
   let n = 0;
   if (validHidden) d.n = Number.NaN;
@@ -75,10 +86,7 @@ function suppressItem(d: ItemDescription, minCell: number, validHidden: boolean)
       if (!states[i]) return;
       if (first === -1) first = i;
       n++;
-      f.count = Number.NaN;
-      f.percent = Number.NaN;
-      if (f.weightedCount !== undefined) f.weightedCount = Number.NaN;
-      if (f.weightedPercent !== undefined) f.weightedPercent = Number.NaN;
+      hideFrequency(f);
     });
     // A cumulative percent after a suppressed row would give its count away.
     if (first >= 0) for (let i = first; i < d.frequencies.length; i++) if (d.frequencies[i]!.cumulativePercent !== undefined) d.frequencies[i]!.cumulativePercent = Number.NaN;
@@ -140,6 +148,125 @@ function withholdItem(d: ItemDescription): ItemDescription {
     withheld: { ...d.withheld, values: 'a confidential item: its values are withheld (codeweir report --show-values shows them)' },
     ...(d.conventions ? { conventions: d.conventions } : {}),
   };
+}
+
+/** A check group key as the key of a team page (the rows without a valid code are one page). */
+function teamKeyOf(key: string): string {
+  return key === GROUP_MISSING || key === GROUP_INVALID ? UNASSIGNED : key;
+}
+
+/** Suppression states of one item's line on a team page: valid, invalid, each kind; and the team's rows. */
+interface TeamLine {
+  cells: boolean[];
+  rows: boolean;
+}
+
+/**
+ * The suppression the team pages of a split report share with the main page: each team's
+ * missingness lines (check's byGroup states; the unassigned page joins the rows with a missing
+ * and with an invalid group code, suppressed where either part is), and each coded item's
+ * counts by team and code, protected as one table whose row totals are the teams' valid counts
+ * and whose column totals are the main page's frequencies (both as the main page and the
+ * missingness tables already settled them: shown ones fixed, suppressed ones unknown), so that
+ * adding up team pages or comparing them with the main page gives no suppressed count back.
+ */
+export interface TeamDisclosurePlan {
+  minCell: number;
+  /** Team key -> item -> line states. */
+  lines: Map<string, Map<string, TeamLine>>;
+  /** Item -> team key -> state of each code's count (the item's code order). */
+  frequencies: Map<string, Map<string, CellState[]>>;
+  unprotected: number;
+}
+
+/**
+ * The plan of {@link TeamDisclosurePlan} from the delivery as checked (`raw`), the main page's
+ * disclosed description, the group item and, per coded item, the count of each team and code.
+ * Cost: one missingness suppression and one teams x codes suppression per coded item. Throws nothing.
+ */
+export function teamDisclosurePlan(
+  raw: ReportInput,
+  mainDescribe: ReportInput['describe'],
+  group: string,
+  minCell: number,
+  countsByTeam: (item: string) => Map<string, number[]> | undefined,
+): TeamDisclosurePlan {
+  const s = missingnessSuppression(raw.check, minCell);
+  const lines = new Map<string, Map<string, TeamLine>>();
+  for (const [key, byItem] of s.byGroup.get(group) ?? new Map<string, Map<string, LineStates>>()) {
+    const team = teamKeyOf(key);
+    let into = lines.get(team);
+    if (!into) lines.set(team, (into = new Map()));
+    for (const [name, l] of byItem) {
+      const was = into.get(name);
+      const cells = l.cells.map((c, j) => c !== 0 || (was?.cells[j] ?? false));
+      into.set(name, { cells, rows: l.rows !== 0 || (was?.rows ?? false) });
+    }
+  }
+  const frequencies = new Map<string, Map<string, CellState[]>>();
+  let unprotected = 0;
+  for (const [name, d] of Object.entries(mainDescribe.items)) {
+    if (!d.frequencies || d.frequencies.length === 0) continue;
+    const byTeam = countsByTeam(name);
+    if (!byTeam || byTeam.size === 0) continue;
+    const teams = [...byTeam.keys()];
+    const rowHidden = teams.map((t) => lines.get(t)?.get(name)?.cells[0] ?? false);
+    const colHidden = d.frequencies.map((f) => Number.isNaN(f.count));
+    const st = suppressCells(
+      teams.map((t) => byTeam.get(t)!),
+      minCell,
+      { rows: rowHidden.map((h) => (h ? 'shown' : 'fixed')), columns: colHidden.map((h) => (h ? 'shown' : 'fixed')), grand: Number.isNaN(d.n) ? 'hidden' : 'fixed' },
+      { rowTotals: rowHidden, columnTotals: colHidden },
+    );
+    if (!st.protected) unprotected++;
+    frequencies.set(name, new Map(teams.map((t, i) => [t, st.cells[i]!])));
+  }
+  return { minCell, lines, frequencies, unprotected };
+}
+
+/**
+ * A team page's input under the plan: its tallies (missingness, valid counts) and frequency
+ * tables as the plan has them, no histograms (their bins add up across the team pages), and
+ * the team's rows when its size is suppressed. Returns the suppressed cells counted. The
+ * arguments are not changed. Cost: a copy of the part's summary and description. Throws nothing.
+ */
+export function discloseTeamPart(check: ReportInput['check'], described: ReportInput['describe'], plan: TeamDisclosurePlan, team: string): { check: ReportInput['check']; describe: ReportInput['describe']; suppressed: number } {
+  const summary: CheckSummary = clone(check.summary);
+  const describe = clone(described);
+  const lines = plan.lines.get(team);
+  let suppressed = 0;
+  if ([...(lines?.values() ?? [])].some((l) => l.rows)) {
+    summary.rows = Number.NaN;
+    suppressed++;
+  }
+  for (const [name, t] of Object.entries(summary.items)) {
+    const l = lines?.get(name);
+    if (l) suppressed += applyLine(t, { cells: l.cells.map((c) => (c ? 2 : 0)), rows: 0 });
+  }
+  for (const [name, d] of Object.entries(describe.items)) {
+    const t = summary.items[name];
+    if (t) {
+      d.n = t.valid;
+      d.invalid = t.invalid;
+      d.missing = { ...t.missing };
+    }
+    const states = plan.frequencies.get(name)?.get(team);
+    if (d.frequencies && states) {
+      let first = -1;
+      d.frequencies.forEach((f, i) => {
+        if (!states[i]) return;
+        if (first === -1) first = i;
+        suppressed++;
+        hideFrequency(f);
+      });
+      if (first >= 0) for (let i = first; i < d.frequencies.length; i++) if (d.frequencies[i]!.cumulativePercent !== undefined) d.frequencies[i]!.cumulativePercent = Number.NaN;
+    }
+    if (d.histogram) {
+      delete d.histogram;
+      suppressed++;
+    }
+  }
+  return { check: { ...check, summary }, describe, suppressed };
 }
 
 /**
@@ -211,7 +338,9 @@ export function disclosureSection(note: DisclosureNote | undefined): string {
   const parts: string[] = [];
   if (note.minCell > 1) {
     parts.push(
-      `<p>Counts from 1 to ${note.minCell - 1} are suppressed, with the other cells that would let them be worked out from the totals shown: ${note.suppressed} cell${note.suppressed === 1 ? '' : 's'} of this report show <strong>-</strong> in place of a count (and of the percentages made from it). A zero is shown: an empty cell describes nobody. Charts of a table with a suppressed count, and scatter plots, are left out.</p>`,
+      `<p>Counts from 1 to ${note.minCell - 1} are suppressed, with the other cells that would let them be worked out from the totals shown: ${note.suppressed} cell${note.suppressed === 1 ? '' : 's'} of this report show <strong>-</strong> in place of a count (and of the percentages made from it). A zero is shown: an empty cell describes nobody. Charts of a table with a suppressed count, and scatter plots, are left out.${
+        note.teamPage ? ' The team pages share the main report’s suppression and draw no histograms: their bins add up across the pages.' : ''
+      }</p>`,
     );
     if (note.unprotected > 0) parts.push(`<p>${note.unprotected} table${note.unprotected === 1 ? '' : 's'} could not be protected by suppressing cells alone; every nonzero count in ${note.unprotected === 1 ? 'it' : 'them'} is suppressed.</p>`);
   }

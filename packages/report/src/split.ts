@@ -12,6 +12,7 @@ import { table, type ReportInput, type ReportOptions, type TeamScope } from './c
 import { UNASSIGNED, groupItemOrThrow, cappedRules, keyOfFinding, tallyByKey, teamRows, worstText, type TeamRow } from './teams.ts';
 import { renderReport } from './report.ts';
 import { pageShell } from './page.ts';
+import { discloseReportInput, discloseTeamPart, teamDisclosurePlan, type ReportDisclosure, type TeamDisclosurePlan } from './disclosure.ts';
 
 /** One code's share of a checked delivery: its rows as a CheckResult of their own. */
 export interface TeamPart {
@@ -162,6 +163,31 @@ export interface SplitReportOptions extends ReportOptions {
   mainFile: string;
   /** Describe options for the team pages; default: the main describe's quantile type and weight. */
   describeOptions?: DescribeOptionsInput;
+  /**
+   * Disclosure control with suppression (minCell above 1): `input` is then the delivery as
+   * checked, and the main page and the team pages are disclosed together, sharing one
+   * suppression (see teamDisclosurePlan). Without it `input` is drawn as it is.
+   */
+  disclosure?: ReportDisclosure;
+}
+
+/** Each team's count of each code of a coded item (the item's code order), from the retained column. */
+function countsByTeam(input: ReportInput, group: string): (item: string) => Map<string, number[]> | undefined {
+  const keyOf = rowKeys(input, group);
+  return (name) => {
+    const col = input.check.store.columns[name];
+    const item = input.codebook.byName.get(name);
+    if (!col || col.kind !== 'coded' || !item) return undefined;
+    const out = new Map<string, number[]>();
+    for (let r = 0; r < input.check.store.rows; r++) {
+      const k = keyOf(r);
+      let row = out.get(k);
+      if (!row) out.set(k, (row = new Array<number>(item.codes.length).fill(0)));
+      const c = col.codes[r]!;
+      if (c > 0) row[c - 1]!++;
+    }
+    return out;
+  };
 }
 
 /** The pages of a split report, each with its path relative to the main report's folder. */
@@ -181,12 +207,23 @@ export interface SplitReport {
  * delivery's columns one team's copy of them is held at once. Throws CodeweirError CW_USAGE for a `splitBy` that is not
  * a group item with a retained column.
  */
-export async function renderSplitReport(input: ReportInput, options: SplitReportOptions): Promise<SplitReport> {
-  const { splitBy: group, mainFile, describeOptions, ...reportOptions } = options;
-  groupItemOrThrow(input.codebook, group);
+export async function renderSplitReport(raw: ReportInput, options: SplitReportOptions): Promise<SplitReport> {
+  const { splitBy: group, mainFile, describeOptions, disclosure, ...reportOptions } = options;
+  groupItemOrThrow(raw.codebook, group);
+  let input = raw;
+  let mainInput = raw;
+  let plan: TeamDisclosurePlan | undefined;
+  if (disclosure && disclosure.minCell > 1) {
+    // The team pages are cut from the delivery with values withheld and counts intact, then
+    // suppressed by the plan the main page shares.
+    mainInput = discloseReportInput(raw, disclosure).input;
+    input = discloseReportInput(raw, { ...disclosure, minCell: 1 }).input;
+    plan = teamDisclosurePlan(raw, mainInput.describe, group, disclosure.minCell, countsByTeam(raw, group));
+    if (mainInput.disclosure) mainInput.disclosure.unprotected += plan.unprotected;
+  }
   const layout = splitLayout(mainFile, group, teamRows({ input, item: (n) => input.codebook.byName.get(n) }, group));
   const fromMain = Object.fromEntries([...layout.pages].map(([k, p]) => [k, p]));
-  const main = await renderReport(input, { ...reportOptions, groupBy: group, pages: { index: layout.index, byCode: fromMain } });
+  const main = await renderReport(mainInput, { ...reportOptions, groupBy: group, pages: { index: layout.index, byCode: fromMain } });
   const capped = cappedRules({ input });
   const fileFindings = input.check.findings.filter((f) => f.row <= 0).length;
   const dOpts: DescribeOptionsInput = {
@@ -203,25 +240,27 @@ export async function renderSplitReport(input: ReportInput, options: SplitReport
       group,
       code: part.row.key,
       name: part.row.name,
-      whole: input.check.summary,
+      whole: mainInput.check.summary,
       main: `../${mainFile}`,
       index: 'index.html',
       fileFindings,
       ...(capped.length > 0 ? { capped: `The findings log keeps only the first findings of ${capped.join(', ')} in the whole delivery; this page shows the logged ones in the team’s rows.` } : {}),
     };
     const described = describe(part.check, input.codebook, dOpts);
-    const html = await renderReport({ ...input, check: part.check, describe: described }, { ...reportOptions, team, groupBy: group });
+    const shown = plan ? discloseTeamPart(part.check, described, plan, part.row.key) : { check: part.check, describe: described, suppressed: 0 };
+    const note = plan && mainInput.disclosure ? { disclosure: { ...mainInput.disclosure, suppressed: shown.suppressed, unprotected: 0, teamPage: true } } : {};
+    const html = await renderReport({ ...input, ...note, check: shown.check, describe: shown.describe }, { ...reportOptions, team, groupBy: group });
     files.push({ path: layout.pages.get(part.row.key)!, html });
     // The page is drawn: its copy of the columns goes, so one team's copy is alive at a time.
     part.check.store.columns = {};
     parts.push(part);
   }
-  files.push({ path: layout.index, html: indexPage(input, group, parts, layout) });
+  files.push({ path: layout.index, html: indexPage(mainInput, group, parts, layout, plan) });
   return { layout, files, parts };
 }
 
 /** The index of the team pages: one row per page with its counts, and the way back. */
-function indexPage(input: ReportInput, group: string, parts: readonly TeamPart[], layout: SplitLayout): string {
+function indexPage(input: ReportInput, group: string, parts: readonly TeamPart[], layout: SplitLayout, plan?: TeamDisclosurePlan): string {
   const cb = input.codebook;
   const summary = input.check.summary;
   const label = cb.byName.get(group)?.label;
@@ -229,10 +268,10 @@ function indexPage(input: ReportInput, group: string, parts: readonly TeamPart[]
     const page = layout.pages.get(p.row.key)!.slice(layout.folder.length + 1);
     return [
       `<a href="${esc(page)}">${esc(p.row.name)}</a>`,
-      num(p.row.rows),
+      num(plan && [...(plan.lines.get(p.row.key)?.values() ?? [])].some((l) => l.rows) ? Number.NaN : p.row.rows),
       num(p.row.errors),
       num(p.row.warnings),
-      pct(p.row.missingPercent),
+      pct(plan && [...(plan.lines.get(p.row.key)?.values() ?? [])].some((l) => l.cells.some(Boolean)) ? Number.NaN : p.row.missingPercent),
       worstText({ item: (n) => cb.byName.get(n) }, p.row.worst),
     ];
   });
