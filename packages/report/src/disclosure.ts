@@ -76,20 +76,26 @@ function hideFrequency(f: NonNullable<ItemDescription['frequencies']>[number]): 
   if (f.weightedPercent !== undefined) f.weightedPercent = Number.NaN;
 }
 
+/** Hides the frequency rows whose state is nonzero and every cumulative percent from the first on; returns how many. */
+function hideFrequencies(freqs: NonNullable<ItemDescription['frequencies']>, states: readonly CellState[]): number {
+  let first = -1;
+  let n = 0;
+  freqs.forEach((f, i) => {
+    if (!states[i]) return;
+    if (first === -1) first = i;
+    n++;
+    hideFrequency(f);
+  });
+  // A cumulative percent after a suppressed row would give its count away.
+  if (first >= 0) for (let i = first; i < freqs.length; i++) if (freqs[i]!.cumulativePercent !== undefined) freqs[i]!.cumulativePercent = Number.NaN;
+  return n;
+}
+
 function suppressItem(d: ItemDescription, minCell: number, validHidden: boolean): number {
   let n = 0;
   if (validHidden) d.n = Number.NaN;
   if (d.frequencies && d.frequencies.length > 0) {
-    const states = oneRow(d.frequencies.map((f) => f.count), minCell, validHidden);
-    let first = -1;
-    d.frequencies.forEach((f, i) => {
-      if (!states[i]) return;
-      if (first === -1) first = i;
-      n++;
-      hideFrequency(f);
-    });
-    // A cumulative percent after a suppressed row would give its count away.
-    if (first >= 0) for (let i = first; i < d.frequencies.length; i++) if (d.frequencies[i]!.cumulativePercent !== undefined) d.frequencies[i]!.cumulativePercent = Number.NaN;
+    n += hideFrequencies(d.frequencies, oneRow(d.frequencies.map((f) => f.count), minCell, validHidden));
   }
   if (d.histogram) {
     const states = oneRow(d.histogram.counts, minCell, validHidden);
@@ -251,16 +257,7 @@ export function discloseTeamPart(check: ReportInput['check'], described: ReportI
       d.missing = { ...t.missing };
     }
     const states = plan.frequencies.get(name)?.get(team);
-    if (d.frequencies && states) {
-      let first = -1;
-      d.frequencies.forEach((f, i) => {
-        if (!states[i]) return;
-        if (first === -1) first = i;
-        suppressed++;
-        hideFrequency(f);
-      });
-      if (first >= 0) for (let i = first; i < d.frequencies.length; i++) if (d.frequencies[i]!.cumulativePercent !== undefined) d.frequencies[i]!.cumulativePercent = Number.NaN;
-    }
+    if (d.frequencies && states) suppressed += hideFrequencies(d.frequencies, states);
     if (d.histogram) {
       delete d.histogram;
       suppressed++;
