@@ -2,6 +2,7 @@ import { describe as suite, it, expect, beforeAll, afterAll } from 'vitest';
 import { mkdtemp, readFile, readdir, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { cli } from './support/cli.ts';
 import { referenceFile, surveyReference } from './reference/survey-design.ts';
 import type { DescribeResult } from '../packages/describe/src/index.ts';
@@ -193,7 +194,17 @@ suite('report --min-cell and --show-values (CLI)', () => {
     const out = join(dir, 'split-k.html');
     const r = await cli(['report', data, '--codebook', cb, '-o', out, '--split-by', 'team', '--min-cell', '5', '--quiet'], dir);
     expect([0, 1]).toContain(r.code);
-    const main = frequencyTables(await readFile(out, 'utf8'));
+    const mainHtml = await readFile(out, 'utf8');
+    const main = frequencyTables(mainHtml);
+    // The findings are not listed; the teams' counts of errors and warnings are '-', 0 or at least 5.
+    expect(mainHtml).not.toContain('Rows of each rule');
+    expect(mainHtml).toContain('the findings are not listed one by one');
+    const teamTable = /<section id="teams".*?<\/section>/s.exec(mainHtml)![0];
+    for (const row of teamTable.split('</tr>').filter((x) => x.includes('<td'))) {
+      for (const cell of [...row.matchAll(/<td[^>]*>(.*?)<\/td>/g)].map((x) => x[1]!.replace(/<[^>]+>/g, '')).slice(2, 4)) {
+        expect(cell === '-' || cell === '0' || Number(cell.replace(/[,≥ ]/g, '')) >= 5, `team table cell ${cell}`).toBe(true);
+      }
+    }
     const teamDir = join(dir, 'split-k-team');
     const teams = new Map<string, Map<string, FrequencyTable>>();
     for (const f of (await readdir(teamDir)).filter((x) => x !== 'index.html')) {
@@ -230,6 +241,37 @@ suite('report --min-cell and --show-values (CLI)', () => {
     }
     expect(attacked).toBeGreaterThan(0);
   }, 240_000);
+});
+
+suite('describe --min-cell (CLI)', () => {
+  // First principles: the frequencies of an item add up to its valid n, the weighted n and the
+  // records left out of it to the valid n as well; counts below k must not be printed.
+  it('suppresses counts below k in the JSON (null, listed in the disclosure block) and in the text', async () => {
+    const lines = (await readFile(new URL('../examples/demo-delivery.csv', import.meta.url), 'utf8')).split('\n').slice(0, 401);
+    const data = join(dir, 'describe400.csv');
+    await writeFile(data, lines.join('\n') + '\n');
+    const cb = fileURLToPath(new URL('../examples/household.codebook.json', import.meta.url));
+    const r = await cli(['describe', data, '--codebook', cb, '--min-cell', '5', '--json'], dir);
+    const out = JSON.parse(r.out) as DescribeResult & { disclosure: { minCell: number; suppressed: string[] } };
+    expect(out.disclosure.minCell).toBe(5);
+    expect(out.disclosure.suppressed.length).toBeGreaterThan(0);
+    for (const [name, d] of Object.entries(out.items)) {
+      const counts = [d.n, d.invalid, ...Object.values(d.missing), ...(d.frequencies ?? []).map((f) => f.count), ...(d.histogram?.counts ?? []), ...(d.weighted ? [d.weighted.n, d.weighted.excluded] : [])];
+      for (const v of counts) expect(v === null || v === 0 || (v as number) >= 5, `${name}: ${v}`).toBe(true);
+      const f = (d.frequencies ?? []).filter((x) => x.count !== null);
+      // A shown frequency row never lets a single suppressed one be worked out from n.
+      if (d.n !== null && d.frequencies && f.length === d.frequencies.length - 1) throw new Error(`${name}: one suppressed row`);
+    }
+    for (const path of out.disclosure.suppressed) {
+      const v = path.split('.').reduce<unknown>((x, k) => (x as Record<string, unknown>)[k], out);
+      expect(v, path).toBeNull();
+    }
+    const text = await cli(['describe', data, '--codebook', cb, '--min-cell', '5'], dir);
+    expect(text.out).toMatch(/Disclosure control: counts from 1 to 4 are suppressed/);
+    expect(text.out).not.toContain('NaN');
+    const help = await cli(['describe', '--help'], dir);
+    expect(help.out).toMatch(/--min-cell/);
+  }, 120_000);
 });
 
 interface FrequencyTable {

@@ -12,7 +12,15 @@ import { table, type ReportInput, type ReportOptions, type TeamScope } from './c
 import { UNASSIGNED, groupItemOrThrow, cappedRules, keyOfFinding, tallyByKey, teamRows, worstText, type TeamRow } from './teams.ts';
 import { renderReport } from './report.ts';
 import { pageShell } from './page.ts';
-import { discloseReportInput, discloseTeamPart, teamDisclosurePlan, type ReportDisclosure, type TeamDisclosurePlan } from './disclosure.ts';
+import { discloseReportInput, discloseTeamPart, teamDisclosurePlan, teamFindingCounts, type ReportDisclosure, type TeamDisclosurePlan } from './disclosure.ts';
+import { NO_ROW, keyGroupTotal } from '@codeweir/check';
+
+/** The count of findings of no row under the plan's suppression (NaN: suppressed). */
+function noRowTotal(plan: TeamDisclosurePlan, group: string): number {
+  const fs = plan.findings!;
+  const n = [...(fs.bySeverity.get(group)?.get(NO_ROW)?.values() ?? [])].reduce((a, b) => a + b, 0);
+  return fs.suppressed.has(keyGroupTotal(group, NO_ROW)) ? Number.NaN : n;
+}
 
 /** One code's share of a checked delivery: its rows as a CheckResult of their own. */
 export interface TeamPart {
@@ -216,16 +224,17 @@ export async function renderSplitReport(raw: ReportInput, options: SplitReportOp
   if (disclosure && disclosure.minCell > 1) {
     // The team pages are cut from the delivery with values withheld and counts intact, then
     // suppressed by the plan the main page shares.
-    mainInput = discloseReportInput(raw, disclosure).input;
+    const disclosed = discloseReportInput(raw, { ...disclosure, splitBy: group });
+    mainInput = disclosed.input;
     input = discloseReportInput(raw, { ...disclosure, minCell: 1 }).input;
-    plan = teamDisclosurePlan(raw, mainInput.describe, group, disclosure.minCell, countsByTeam(raw, group));
+    plan = teamDisclosurePlan(raw, mainInput.describe, group, disclosure.minCell, countsByTeam(raw, group), disclosed.findings);
     if (mainInput.disclosure) mainInput.disclosure.unprotected += plan.unprotected;
   }
   const layout = splitLayout(mainFile, group, teamRows({ input, item: (n) => input.codebook.byName.get(n) }, group));
   const fromMain = Object.fromEntries([...layout.pages].map(([k, p]) => [k, p]));
   const main = await renderReport(mainInput, { ...reportOptions, groupBy: group, pages: { index: layout.index, byCode: fromMain } });
   const capped = cappedRules({ input });
-  const fileFindings = input.check.findings.filter((f) => f.row <= 0).length;
+  const fileFindings = plan?.findings ? noRowTotal(plan, group) : input.check.findings.filter((f) => f.row <= 0).length;
   const dOpts: DescribeOptionsInput = {
     quantileType: input.describe.quantileType,
     ...(input.describe.weight !== undefined ? { weight: input.describe.weight } : {}),
@@ -248,7 +257,9 @@ export async function renderSplitReport(raw: ReportInput, options: SplitReportOp
     };
     const described = describe(part.check, input.codebook, dOpts);
     const shown = plan ? discloseTeamPart(part.check, described, plan, part.row.key) : { check: part.check, describe: described, suppressed: 0 };
-    const note = plan && mainInput.disclosure ? { disclosure: { ...mainInput.disclosure, suppressed: shown.suppressed, unprotected: 0, teamPage: true } } : {};
+    const counts = plan?.findings ? { findings: teamFindingCounts(shown.check.summary, shown.describe, plan.findings, group, part.row.key, capped) } : {};
+    if (plan?.findings) shown.check = { ...shown.check, findings: [] };
+    const note = plan && mainInput.disclosure ? { disclosure: { ...mainInput.disclosure, suppressed: shown.suppressed, unprotected: 0, teamPage: true, ...counts } } : {};
     const html = await renderReport({ ...input, ...note, check: shown.check, describe: shown.describe }, { ...reportOptions, team, groupBy: group });
     files.push({ path: layout.pages.get(part.row.key)!, html });
     // The page is drawn: its copy of the columns goes, so one team's copy is alive at a time.
@@ -264,24 +275,26 @@ function indexPage(input: ReportInput, group: string, parts: readonly TeamPart[]
   const cb = input.codebook;
   const summary = input.check.summary;
   const label = cb.byName.get(group)?.label;
+  const counts = input.disclosure?.findings?.groups.get(group);
+  const shownErrors = (p: TeamPart): { error: number; warning: number } => counts ? (counts.get(p.row.key) ?? { error: 0, warning: 0 }) : { error: p.row.errors, warning: p.row.warnings };
   const rows = parts.map((p) => {
     const page = layout.pages.get(p.row.key)!.slice(layout.folder.length + 1);
     return [
       `<a href="${esc(page)}">${esc(p.row.name)}</a>`,
       num(plan && [...(plan.lines.get(p.row.key)?.values() ?? [])].some((l) => l.rows) ? Number.NaN : p.row.rows),
-      num(p.row.errors),
-      num(p.row.warnings),
+      num(shownErrors(p).error),
+      num(shownErrors(p).warning),
       pct(plan && [...(plan.lines.get(p.row.key)?.values() ?? [])].some((l) => l.cells.some(Boolean)) ? Number.NaN : p.row.missingPercent),
-      worstText({ item: (n) => cb.byName.get(n) }, p.row.worst),
+      worstText({ input, item: (n) => cb.byName.get(n) }, p.row.worst),
     ];
   });
   const sum = (f: (p: TeamPart) => number) => parts.reduce((a, p) => a + f(p), 0);
-  const fileFindings = input.check.findings.filter((f) => f.row <= 0);
+  const fileFindings = plan?.findings ? noRowTotal(plan, group) : input.check.findings.filter((f) => f.row <= 0).length;
   const body = `<section id="pages" class="block"><h2>${esc(`One page per ${group}${label ? ` (${label})` : ''}`)}</h2>
 ${table({ head: [group, 'rows', 'errors', 'warnings', 'missing %', 'worst items'], numeric: [1, 2, 3, 4], rows, className: 'wide teams' })}
 <p class="note">${esc(
-    `The pages hold ${num(sum((p) => p.row.rows))} of the delivery's ${num(summary.rows)} rows and ${num(sum((p) => p.row.errors))} of its ${num(summary.findings.bySeverity.error ?? 0)} errors` +
-      (fileFindings.length > 0 ? `; ${num(fileFindings.length)} findings belong to no row (header, whole columns) and are in the main report.` : '.'),
+    `The pages hold ${num(sum((p) => p.row.rows))} of the delivery's ${num(summary.rows)} rows and ${num(sum((p) => shownErrors(p).error))} of its ${num(summary.findings.bySeverity.error ?? 0)} errors` +
+      (fileFindings !== 0 ? `; ${num(fileFindings)} findings belong to no row (header, whole columns) and are in the main report.` : '.'),
   )}</p></section>`;
   return pageShell({
     title: `${cb.title || cb.id}: pages by ${group}`,
