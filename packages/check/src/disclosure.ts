@@ -18,7 +18,8 @@
  */
 import { suppressCells, type CellState, type MarginShown } from '@codeweir/stats';
 import { KINDS } from './classify.ts';
-import type { CheckResult, Finding, GroupItemTally } from './types.ts';
+import type { CheckResult, CheckSummary, Finding, FindingRule, FindingSeverity, GroupItemTally } from './types.ts';
+import { findingsSuppression, keyRule, keySeverity, keyItemRule, keyCrossRule, KEY_TOTAL } from './findings-disclosure.ts';
 
 /** What a suppressed count is written as. */
 export const SUPPRESSED_MARK = '[s]';
@@ -32,6 +33,8 @@ export interface DisclosureOptions {
   withhold: ReadonlySet<string>;
   /** Withhold the record id of findings (the id item's value). */
   withholdIds: boolean;
+  /** Severity of each cross-item rule by id (the codebook's); else read off the findings log. */
+  ruleSeverity?: ReadonlyMap<string, FindingSeverity>;
 }
 
 /** Suppression states of one table line: valid, invalid, each missing kind, and the line's rows. */
@@ -176,4 +179,68 @@ export function withholdFindings(findings: readonly Finding[], opts: DisclosureO
     }
     return g;
   });
+}
+
+/**
+ * The summary as `summary.json` writes it under suppression: every count from 1 to k - 1 and its
+ * complements written as null, with the same states as the files beside it (the item tallies as
+ * missingness.csv, the group tallies as missingness-by-group.csv), the counts of findings as one
+ * set of linked tables (by rule, by severity, the total, each item's by rule, each cross-item
+ * rule's; see findingsSuppression), each item's routing counts and the records by number of
+ * missing items as rows adding up to the delivery's rows, trimmed cells on their own; and a
+ * `disclosure` block: `{ minCell, suppressed: [the JSON paths written as null], unprotected }`.
+ * Cost: one findings suppression and a copy of the summary. Throws nothing.
+ */
+export function suppressedSummary(result: CheckResult, s: MissingnessSuppression, opts: DisclosureOptions): Record<string, unknown> {
+  const k = s.minCell;
+  const doc = structuredClone(result.summary) as unknown as Record<string, unknown> & CheckSummary;
+  const paths: string[] = [];
+  const nul = (obj: Record<string, unknown>, key: string, path: string): void => {
+    obj[key] = null;
+    paths.push(path);
+  };
+  const line = (t: GroupItemTally, st: LineStates | undefined, path: string): void => {
+    if (!st) return;
+    const o = t as unknown as Record<string, unknown>;
+    if (st.cells[0]) nul(o, 'valid', `${path}.valid`);
+    if (st.cells[1]) nul(o, 'invalid', `${path}.invalid`);
+    KINDS.forEach((kind, j) => st.cells[2 + j] && t.missing[kind] !== undefined && nul(t.missing as Record<string, unknown>, kind, `${path}.missing.${kind}`));
+  };
+  for (const [name, t] of Object.entries(doc.items)) line(t, s.overall.get(name), `items.${name}`);
+  for (const [g, byKey] of Object.entries(doc.groups)) for (const [code, perItem] of Object.entries(byKey)) for (const [name, t] of Object.entries(perItem)) line(t, s.byGroup.get(g)?.get(code)?.get(name), `groups.${g}.${code}.${name}`);
+  const ruleSeverity = new Map(opts.ruleSeverity ?? []);
+  for (const f of result.findings) if (f.rule === 'rule-failed' && !ruleSeverity.has(f.item)) ruleSeverity.set(f.item, f.severity);
+  const fs = findingsSuppression({ summary: result.summary, findings: result.findings, ruleSeverity, invalidSuppressed: new Set([...s.overall].filter(([, l]) => l.cells[1] !== 0).map(([n]) => n)) }, k);
+  const hide = (obj: Record<string, unknown>, key: string, sKey: string, path: string): void => {
+    if (obj[key] !== undefined && fs.suppressed.has(sKey)) nul(obj, key, path);
+  };
+  const f = doc.findings as unknown as Record<string, Record<string, unknown>>;
+  for (const r of Object.keys(doc.findings.byRule)) hide(f.byRule!, r, keyRule(r), `findings.byRule.${r}`);
+  for (const sv of Object.keys(doc.findings.bySeverity)) hide(f.bySeverity!, sv, keySeverity(sv), `findings.bySeverity.${sv}`);
+  if (fs.suppressed.has(KEY_TOTAL)) {
+    nul(doc.findings as unknown as Record<string, unknown>, 'total', 'findings.total');
+    if (doc.findings.logged !== undefined) nul(doc.findings as unknown as Record<string, unknown>, 'logged', 'findings.logged');
+  }
+  for (const [name, t] of Object.entries(doc.items)) {
+    for (const r of Object.keys(t.findings) as FindingRule[]) hide(t.findings as Record<string, unknown>, r, keyItemRule(name, r), `items.${name}.findings.${r}`);
+    const o = t as unknown as Record<string, unknown>;
+    if (t.trimmed !== undefined && t.trimmed >= 1 && t.trimmed < k) nul(o, 'trimmed', `items.${name}.trimmed`);
+    if (t.routing) {
+      const cols = ['asked', 'skipped', 'undetermined'] as const;
+      const st = suppressCells([cols.map((c) => t.routing![c])], k, { rows: 'fixed', columns: 'hidden' }).cells[0]!;
+      cols.forEach((c, j) => st[j] && nul(t.routing as unknown as Record<string, unknown>, c, `items.${name}.routing.${c}`));
+    }
+  }
+  for (const [id, res] of Object.entries(doc.rules)) for (const c of ['passed', 'failed', 'undetermined', 'skipped']) hide(res as Record<string, unknown>, c, keyCrossRule(id, c), `rules.${id}.${c}`);
+  if (doc.recordMissing && doc.recordMissing.length > 0) {
+    const st = suppressCells([doc.recordMissing], k, { rows: 'fixed', columns: 'hidden' }).cells[0]!;
+    const rec = doc.recordMissing as unknown as Array<number | null>;
+    st.forEach((x, i) => {
+      if (x) {
+        rec[i] = null;
+        paths.push(`recordMissing.${i}`);
+      }
+    });
+  }
+  return { ...doc, disclosure: { minCell: k, suppressed: paths, unprotected: s.unprotected + fs.unprotected } };
 }

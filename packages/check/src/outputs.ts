@@ -7,7 +7,7 @@ import { join } from 'node:path';
 import { writeFilesAtomic, CodeweirError } from '@codeweir/core';
 import { KINDS } from './classify.ts';
 import type { CheckResult, Finding, GroupItemTally } from './types.ts';
-import { missingnessSuppression, suppressedMissingCells, withholdFindings, type DisclosureOptions, type LineStates, type MissingnessSuppression } from './disclosure.ts';
+import { missingnessSuppression, suppressedSummary, suppressedMissingCells, withholdFindings, type DisclosureOptions, type LineStates, type MissingnessSuppression } from './disclosure.ts';
 
 const BOM = '\ufeff';
 
@@ -129,7 +129,7 @@ export async function writeCheckOutputs(result: CheckResult, dir: string, opts: 
     [join(dir, 'findings.jsonl'), findingsJsonl(result.findings)],
     [join(dir, 'missingness.csv'), missingnessCsv(result, suppression)],
     [join(dir, 'missingness-by-group.csv'), missingnessByGroupCsv(result, suppression)],
-    [join(dir, 'summary.json'), JSON.stringify(result.summary, null, 2) + '\n'],
+    [join(dir, 'summary.json'), JSON.stringify(suppression && disclosure ? suppressedSummary(result, suppression, disclosure) : result.summary, null, 2) + '\n'],
   ];
   if (opts.splitBy !== undefined) {
     const g = opts.splitBy;

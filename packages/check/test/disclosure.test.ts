@@ -85,6 +85,41 @@ function equationsOf(rows: number, overall: Line[], byGroup: Line[]): Equation[]
   return eqs;
 }
 
+/** Rules whose findings make a cell invalid (first principles: each such cell is one finding and counts as invalid). */
+const INVALIDATING = new Set(['not-a-number', 'not-an-integer', 'not-a-date', 'not-a-code', 'unbinned-value', 'impossible', 'pattern-mismatch', 'answered-when-skipped']);
+
+/**
+ * The equations summary.json's counts of findings give: by rule adds up to the total, by
+ * severity too, each rule is its items' counts plus findings of no item (unknowns of their own),
+ * an item's invalidating findings add up to its invalid count (missingness.csv), and each
+ * cross-item rule's counts add up to the rows. A null is an unknown.
+ */
+function findingEquations(summary: Record<string, any>, overall: Line[]): Equation[] {
+  const eqs: Equation[] = [];
+  const sum = (parts: Array<[unknown, string, number]>, rhs: number): void => {
+    const terms: Array<[string, number]> = [];
+    let r = rhs;
+    for (const [v, name, c] of parts) (v === null ? terms.push([name, c]) : (r -= c * Number(v)));
+    if (terms.length > 0) eqs.push({ terms, rhs: r });
+  };
+  const f = summary.findings;
+  const rules = Object.keys(f.byRule);
+  sum([...rules.map((r): [unknown, string, number] => [f.byRule[r], `rule:${r}`, 1]), [f.total, 'total', -1]], 0);
+  sum([...Object.keys(f.bySeverity).map((s): [unknown, string, number] => [f.bySeverity[s], `severity:${s}`, 1]), [f.total, 'total', -1]], 0);
+  for (const r of rules) {
+    const parts: Array<[unknown, string, number]> = [[null, `rest:${r}`, 1], [f.byRule[r], `rule:${r}`, -1]];
+    for (const [name, t] of Object.entries<any>(summary.items)) if (t.findings[r] !== undefined) parts.push([t.findings[r], `${name}:${r}`, 1]);
+    sum(parts, 0);
+  }
+  for (const line of overall) {
+    const t = summary.items[line.item!];
+    const parts: Array<[unknown, string, number]> = Object.keys(t.findings).filter((r) => INVALIDATING.has(r)).map((r) => [t.findings[r], `${line.item}:${r}`, 1]);
+    if (parts.length > 0) sum([...parts, [line.invalid === SUPPRESSED_MARK ? null : line.invalid, `all:${line.item}:invalid`, -1]], 0);
+  }
+  for (const [id, res] of Object.entries<any>(summary.rules)) sum(Object.entries(res).map(([c, v]): [unknown, string, number] => [v, `cross:${id}:${c}`, 1]), summary.rows);
+  return eqs;
+}
+
 describe('disclosure control of check outputs', () => {
   for (const [seed, n] of [[1, 150], [2, 90], [3, 240]] as const) {
     it(`delivery ${seed} (${n} rows): no count below 5 is written, and none suppressed can be recovered`, async () => {
@@ -118,10 +153,28 @@ describe('disclosure control of check outputs', () => {
         const same = byGroup.find((b) => b.group === l.group && b.item === l.item)!;
         for (const c of COUNT_COLUMNS) expect(l[c]).toBe(same[c]);
       }
-      // The attacker, with every file at once.
+      // summary.json: no count from 1 to 4 in a count position, the item tallies suppressed
+      // exactly where missingness.csv has them, every null listed in its disclosure block.
+      const summary = JSON.parse(await readFile(join(out, 'summary.json'), 'utf8')) as Record<string, any>;
+      expect(summary.disclosure.minCell).toBe(5);
+      const nulls: string[] = [];
+      const walk = (x: unknown, path: string): void => {
+        if (x === null) nulls.push(path);
+        else if (typeof x === 'number') expect(x === 0 || x >= 5, `${path} = ${x}`).toBe(true);
+        else if (typeof x === 'object') for (const [k, v] of Object.entries(x as object)) walk(v, path === '' ? k : `${path}.${k}`);
+      };
+      for (const [k, v] of Object.entries(summary)) if (!['rows', 'header', 'fences', 'quantileType', 'codebook', 'disclosure', 'file'].includes(k)) walk(v, k);
+      expect(nulls.sort()).toEqual([...summary.disclosure.suppressed].sort());
+      for (const line of overall) {
+        const t = summary.items[line.item!];
+        expect(t.valid === null, `${line.item} valid`).toBe(line.valid === SUPPRESSED_MARK);
+        expect(t.invalid === null, `${line.item} invalid`).toBe(line.invalid === SUPPRESSED_MARK);
+      }
+      // The attacker, with every file at once, summary.json's counts of findings included.
       const eqs = equationsOf(r.summary.rows, overall, byGroup);
+      eqs.push(...findingEquations(summary, overall));
       // A line's missing total follows from its rows, valid and invalid when those are shown: not a count kept back.
-      const counted = (cell: string): boolean => !cell.endsWith(':missing');
+      const counted = (cell: string): boolean => !cell.endsWith(':missing') && !cell.startsWith('rest:');
       expect([...eliminated(eqs)].filter(counted)).toEqual([]);
       for (const [cell, [lo, hi]] of feasibleBounds(eqs)) if (counted(cell)) expect(hi - lo, `${cell} in [${lo}, ${hi}]`).toBeGreaterThanOrEqual(1);
     });
@@ -131,6 +184,10 @@ describe('disclosure control of check outputs', () => {
     const r = await check(delivery(1, 150), cb);
     const out = join(dir, 'plain');
     await writeCheckOutputs(r, out, { splitBy: 'team' });
+    expect(await readFile(join(out, 'summary.json'), 'utf8')).toBe(JSON.stringify(r.summary, null, 2) + '\n');
+    const k1 = join(dir, 'plain-k1');
+    await writeCheckOutputs(r, k1, { splitBy: 'team', disclosure: { minCell: 1, withhold: new Set(), withholdIds: false } });
+    expect(await readFile(join(k1, 'summary.json'), 'utf8')).toBe(JSON.stringify(r.summary, null, 2) + '\n');
     const text = await readFile(join(out, 'missingness.csv'), 'utf8');
     expect(text).not.toContain(SUPPRESSED_MARK);
     const f = await read(join(out, 'by-team', '1', 'findings.csv'));

@@ -23,15 +23,16 @@ export interface DisclosureChoice {
   /** 1 when suppression is off. */
   minCell: number;
   showValues: boolean;
-  /** Items whose values are withheld: confidential items, and the id item while suppression is on. */
+  /** Items whose values are withheld: confidential items and the id item (none with `--show-values`). */
   withhold: Set<string>;
   withholdIds: boolean;
 }
 
 /**
  * The disclosure settings of a run: on with `--min-cell` (k, or 5 when given without a number)
- * or the codebook's `disclosure.minCell`; confidential items are withheld whatever the setting,
- * the id item too while suppression is on, nothing with `--show-values`. Cost: O(items).
+ * or the codebook's `disclosure.minCell`; confidential items and the id item are withheld from
+ * what goes to others whatever the setting (the report, the team folders), nothing with
+ * `--show-values`. Cost: O(items).
  * Throws CodeweirError CW_USAGE when k is not a whole number of at least 1.
  */
 export function disclosureChoice(args: Record<string, unknown>, codebook: CompiledCodebook): DisclosureChoice {
@@ -47,9 +48,9 @@ export function disclosureChoice(args: Record<string, unknown>, codebook: Compil
   const withhold = new Set<string>();
   if (!showValues) {
     for (const item of codebook.items) if (item.confidential) withhold.add(item.name);
-    if (minCell > 1 && codebook.idItem) withhold.add(codebook.idItem.name);
+    if (codebook.idItem) withhold.add(codebook.idItem.name);
   }
-  return { minCell, showValues, withhold, withholdIds: !showValues && minCell > 1 };
+  return { minCell, showValues, withhold, withholdIds: !showValues };
 }
 
 /**

@@ -10,3 +10,4 @@ export {
 export { conventionText, conventionsFor, OUTLIER_NOTE_SHARE, type ConventionKey } from './conventions.ts';
 export { describePairs, type PairOptions } from './pairs.ts';
 export { addDesignEstimates, designActive, designWeightName, DESIGN_CONVENTIONS } from './design.ts';
+export { suppressDescription, suppressItem, suppressPair, oneRow, hideFrequency, hideFrequencies } from './disclosure.ts';

@@ -129,7 +129,9 @@ function continuousCharts(ctx: Ctx, name: string, d: ItemDescription): string {
   const axis = d.unit ? `${name} (${d.unit})` : name;
   const values = columnValues(ctx.input.check.store, name);
   const out: string[] = [];
-  const hist = d.histogram ?? histogramOf(values);
+  // Under suppression a histogram left out stays out: drawing it again from the values would show its bins.
+  const suppressing = (ctx.input.disclosure?.minCell ?? 1) > 1;
+  const hist = d.histogram ?? (suppressing ? undefined : histogramOf(values));
   if (hist && hist.counts.length > 0) {
     const width = hist.edges.length > 1 ? hist.edges[1]! - hist.edges[0]! : 0;
     const title = `${what}: distribution`;

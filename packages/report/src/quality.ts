@@ -5,8 +5,16 @@ import { formatNumber as num, formatPercent as pct } from './format.ts';
 import { rules as RULE_DEFS } from '@codeweir/check';
 import { type Ctx, table } from './context.ts';
 import { findingTarget } from './teams.ts';
+import { keyRuleAt } from '@codeweir/check';
 
 const plural = (n: number, one: string, many = `${one}s`) => `${num(n)} ${n === 1 ? one : many}`;
+
+/** A count for ordering: a suppressed one (NaN) as 0, so that its place says nothing of it. */
+export const sortable = (n: number | undefined): number => (n === undefined || Number.isNaN(n) ? 0 : n);
+
+/** Where the findings are when a page leaves their list out (under --min-cell). */
+export const FINDINGS_LEFT_OUT =
+  'Under --min-cell the findings are not listed one by one here: counting them would give the suppressed counts back. They are in the findings log (check --out), and each team’s in its folder of check --split-by, for the data manager and the team whose records they list.';
 
 /** True when the delivery has no error findings (check's own `accepted` when it set one). */
 export function isAccepted(ctx: Ctx): boolean {
@@ -22,6 +30,8 @@ export function isAccepted(ctx: Ctx): boolean {
  */
 export function ruleCount(ctx: Ctx, rule: FindingRule, severity: FindingSeverity): number {
   const { summary, findings } = ctx.input.check;
+  const shown = ctx.input.disclosure?.findings;
+  if (shown) return shown.ruleAt.get(keyRuleAt(rule, severity)) ?? 0;
   if (rule === 'rule-failed') {
     const defs = ctx.input.codebook.rules;
     if (Object.keys(summary.rules).length > 0) return defs.filter((d) => d.severity === severity).reduce((a, d) => a + (summary.rules[d.id]?.failed ?? 0), 0);
@@ -33,7 +43,7 @@ export function ruleCount(ctx: Ctx, rule: FindingRule, severity: FindingSeverity
 
 /** The severities a rule's findings have, most severe first. */
 export function severitiesOf(ctx: Ctx, rule: FindingRule): FindingSeverity[] {
-  return (['error', 'warning', 'info'] as const).filter((s) => ruleCount(ctx, rule, s) > 0);
+  return (['error', 'warning', 'info'] as const).filter((s) => ruleCount(ctx, rule, s) !== 0);
 }
 
 /** A rule's most severe severity among its findings. */
@@ -45,8 +55,8 @@ function severityOf(ctx: Ctx, rule: FindingRule): FindingSeverity {
 function rulesWithFindings(ctx: Ctx): FindingRule[] {
   const byRule = ctx.input.check.summary.findings.byRule;
   return (Object.keys(byRule) as FindingRule[])
-    .filter((r) => (byRule[r] ?? 0) > 0)
-    .sort((a, b) => SEVERITY_ORDER[severityOf(ctx, a)] - SEVERITY_ORDER[severityOf(ctx, b)] || (byRule[b] ?? 0) - (byRule[a] ?? 0) || a.localeCompare(b));
+    .filter((r) => (byRule[r] ?? 0) !== 0)
+    .sort((a, b) => SEVERITY_ORDER[severityOf(ctx, a)] - SEVERITY_ORDER[severityOf(ctx, b)] || sortable(byRule[b]) - sortable(byRule[a]) || a.localeCompare(b));
 }
 
 /**
@@ -56,19 +66,19 @@ function rulesWithFindings(ctx: Ctx): FindingRule[] {
  */
 function itemsOfRule(ctx: Ctx, rule: FindingRule, severity?: FindingSeverity): Array<[string, number]> {
   let counts = Object.entries(ctx.input.check.summary.items).map(([name, t]): [string, number] => [name, t.findings[rule] ?? 0]);
-  if (!counts.some(([, n]) => n > 0)) {
+  if (!counts.some(([, n]) => n !== 0)) {
     const m = new Map<string, number>();
     for (const f of ctx.input.check.findings) if (f.rule === rule && (severity === undefined || f.severity === severity)) m.set(f.item, (m.get(f.item) ?? 0) + 1);
     counts = [...m];
   }
-  return counts.filter(([, n]) => n > 0).sort((a, b) => b[1] - a[1] || a[0].localeCompare(b[0]));
+  return counts.filter(([, n]) => n !== 0).sort((a, b) => sortable(b[1]) - sortable(a[1]) || a[0].localeCompare(b[0]));
 }
 
 /** "not-a-code 23 (water_src 12, edu 11)" for the largest rules of one severity. */
 function ruleReasons(ctx: Ctx, severity: FindingSeverity, most = 3): string {
   const rules = rulesWithFindings(ctx)
-    .filter((r) => ruleCount(ctx, r, severity) > 0)
-    .sort((a, b) => ruleCount(ctx, b, severity) - ruleCount(ctx, a, severity));
+    .filter((r) => ruleCount(ctx, r, severity) !== 0)
+    .sort((a, b) => sortable(ruleCount(ctx, b, severity)) - sortable(ruleCount(ctx, a, severity)));
   const parts = rules.slice(0, most).map((r) => {
     const items = itemsOfRule(ctx, r, severity);
     const where = items.length === 0 ? '' : ` (${items.slice(0, 2).map(([n, c]) => `${findingTarget(ctx, n)} ${num(c)}`).join(', ')}${items.length > 2 ? ', …' : ''})`;
@@ -98,11 +108,11 @@ export function verdictSection(ctx: Ctx): string {
       ? `No error findings in ${rows}; ${plural(warnings, 'warning')} to review.`
       : `${plural(errors, 'error')} and ${plural(warnings, 'warning')} in ${rows}.`;
   const reasons: string[] = [];
-  if (errors > 0) reasons.push(`${team ? 'To fix' : 'Rejected for'}: ${ruleReasons(ctx, 'error')}.`);
+  if (errors !== 0) reasons.push(`${team ? 'To fix' : 'Rejected for'}: ${ruleReasons(ctx, 'error')}.`);
   const h = summary.header;
   const headerProblems = h.missing.length + h.unexpected.length + h.duplicate.length;
   if (!team && headerProblems > 0) reasons.push(esc(`Header: ${plural(headerProblems, 'column problem')} (see Header).`));
-  if (warnings > 0) reasons.push(`To review: ${ruleReasons(ctx, 'warning')}.`);
+  if (warnings !== 0) reasons.push(`To review: ${ruleReasons(ctx, 'warning')}.`);
   if (team) {
     const whole = team.whole;
     const wErrors = whole.findings.bySeverity.error ?? 0;
@@ -167,7 +177,7 @@ export function findingsSection(ctx: Ctx): string {
   }
   const rules = rulesWithFindings(ctx);
   const team = ctx.options.team;
-  const fileNote = team && team.fileFindings > 0 ? `<p class="note">${esc(`${plural(team.fileFindings, 'finding')} of the delivery belong to no row (the header, whole columns); they are in the main report.`)}</p>` : '';
+  const fileNote = team && team.fileFindings !== 0 ? `<p class="note">${esc(`${plural(team.fileFindings, 'finding')} of the delivery belong to no row (the header, whole columns); they are in the main report.`)}</p>` : '';
   if (rules.length === 0) return `<section id="findings" class="block"><h2>Findings</h2><p class="none">No findings${team ? ' in the team’s rows' : ''}.</p>${fileNote}</section>`;
 
   const ruleTable = table({
@@ -209,9 +219,10 @@ export function findingsSection(ctx: Ctx): string {
     })
     .join('');
 
+  const rowsOfRules = ctx.input.disclosure?.findings ? `<p class="note">${esc(FINDINGS_LEFT_OUT)}</p>` : `<h3>Rows of each rule</h3>${firstRows}`;
   return `<section id="findings" class="block"><h2>Findings</h2>
 <p>${esc(`${plural(summary.findings.total, 'finding')} under ${plural(rules.length, 'rule')}${team ? ' in the team’s rows' : ''}. Rows are data rows of the delivery, the header not counted.`)}</p>${fileNote}
-${ruleTable}<h3>Rows of each rule</h3>${firstRows}</section>`;
+${ruleTable}${rowsOfRules}</section>`;
 }
 
 export function rulesSection(ctx: Ctx): string {

@@ -12,6 +12,15 @@ import { table, type ReportInput, type ReportOptions, type TeamScope } from './c
 import { UNASSIGNED, groupItemOrThrow, cappedRules, keyOfFinding, tallyByKey, teamRows, worstText, type TeamRow } from './teams.ts';
 import { renderReport } from './report.ts';
 import { pageShell } from './page.ts';
+import { discloseReportInput, discloseTeamPart, teamDisclosurePlan, teamFindingCounts, type ReportDisclosure, type TeamDisclosurePlan } from './disclosure.ts';
+import { NO_ROW, keyGroupTotal } from '@codeweir/check';
+
+/** The count of findings of no row under the plan's suppression (NaN: suppressed). */
+function noRowTotal(plan: TeamDisclosurePlan, group: string): number {
+  const fs = plan.findings!;
+  const n = [...(fs.bySeverity.get(group)?.get(NO_ROW)?.values() ?? [])].reduce((a, b) => a + b, 0);
+  return fs.suppressed.has(keyGroupTotal(group, NO_ROW)) ? Number.NaN : n;
+}
 
 /** One code's share of a checked delivery: its rows as a CheckResult of their own. */
 export interface TeamPart {
@@ -162,6 +171,31 @@ export interface SplitReportOptions extends ReportOptions {
   mainFile: string;
   /** Describe options for the team pages; default: the main describe's quantile type and weight. */
   describeOptions?: DescribeOptionsInput;
+  /**
+   * Disclosure control with suppression (minCell above 1): `input` is then the delivery as
+   * checked, and the main page and the team pages are disclosed together, sharing one
+   * suppression (see teamDisclosurePlan). Without it `input` is drawn as it is.
+   */
+  disclosure?: ReportDisclosure;
+}
+
+/** Each team's count of each code of a coded item (the item's code order), from the retained column. */
+function countsByTeam(input: ReportInput, group: string): (item: string) => Map<string, number[]> | undefined {
+  const keyOf = rowKeys(input, group);
+  return (name) => {
+    const col = input.check.store.columns[name];
+    const item = input.codebook.byName.get(name);
+    if (!col || col.kind !== 'coded' || !item) return undefined;
+    const out = new Map<string, number[]>();
+    for (let r = 0; r < input.check.store.rows; r++) {
+      const k = keyOf(r);
+      let row = out.get(k);
+      if (!row) out.set(k, (row = new Array<number>(item.codes.length).fill(0)));
+      const c = col.codes[r]!;
+      if (c > 0) row[c - 1]!++;
+    }
+    return out;
+  };
 }
 
 /** The pages of a split report, each with its path relative to the main report's folder. */
@@ -181,14 +215,26 @@ export interface SplitReport {
  * delivery's columns one team's copy of them is held at once. Throws CodeweirError CW_USAGE for a `splitBy` that is not
  * a group item with a retained column.
  */
-export async function renderSplitReport(input: ReportInput, options: SplitReportOptions): Promise<SplitReport> {
-  const { splitBy: group, mainFile, describeOptions, ...reportOptions } = options;
-  groupItemOrThrow(input.codebook, group);
+export async function renderSplitReport(raw: ReportInput, options: SplitReportOptions): Promise<SplitReport> {
+  const { splitBy: group, mainFile, describeOptions, disclosure, ...reportOptions } = options;
+  groupItemOrThrow(raw.codebook, group);
+  let input = raw;
+  let mainInput = raw;
+  let plan: TeamDisclosurePlan | undefined;
+  if (disclosure && disclosure.minCell > 1) {
+    // The team pages are cut from the delivery with values withheld and counts intact, then
+    // suppressed by the plan the main page shares.
+    const disclosed = discloseReportInput(raw, { ...disclosure, splitBy: group });
+    mainInput = disclosed.input;
+    input = discloseReportInput(raw, { ...disclosure, minCell: 1 }).input;
+    plan = teamDisclosurePlan(raw, mainInput.describe, group, disclosure.minCell, countsByTeam(raw, group), disclosed.findings);
+    if (mainInput.disclosure) mainInput.disclosure.unprotected += plan.unprotected;
+  }
   const layout = splitLayout(mainFile, group, teamRows({ input, item: (n) => input.codebook.byName.get(n) }, group));
   const fromMain = Object.fromEntries([...layout.pages].map(([k, p]) => [k, p]));
-  const main = await renderReport(input, { ...reportOptions, groupBy: group, pages: { index: layout.index, byCode: fromMain } });
+  const main = await renderReport(mainInput, { ...reportOptions, groupBy: group, pages: { index: layout.index, byCode: fromMain } });
   const capped = cappedRules({ input });
-  const fileFindings = input.check.findings.filter((f) => f.row <= 0).length;
+  const fileFindings = plan?.findings ? noRowTotal(plan, group) : input.check.findings.filter((f) => f.row <= 0).length;
   const dOpts: DescribeOptionsInput = {
     quantileType: input.describe.quantileType,
     ...(input.describe.weight !== undefined ? { weight: input.describe.weight } : {}),
@@ -203,46 +249,52 @@ export async function renderSplitReport(input: ReportInput, options: SplitReport
       group,
       code: part.row.key,
       name: part.row.name,
-      whole: input.check.summary,
+      whole: mainInput.check.summary,
       main: `../${mainFile}`,
       index: 'index.html',
       fileFindings,
       ...(capped.length > 0 ? { capped: `The findings log keeps only the first findings of ${capped.join(', ')} in the whole delivery; this page shows the logged ones in the team’s rows.` } : {}),
     };
     const described = describe(part.check, input.codebook, dOpts);
-    const html = await renderReport({ ...input, check: part.check, describe: described }, { ...reportOptions, team, groupBy: group });
+    const shown = plan ? discloseTeamPart(part.check, described, plan, part.row.key) : { check: part.check, describe: described, suppressed: 0 };
+    const counts = plan?.findings ? { findings: teamFindingCounts(shown.check.summary, shown.describe, plan.findings, group, part.row.key, capped) } : {};
+    if (plan?.findings) shown.check = { ...shown.check, findings: [] };
+    const note = plan && mainInput.disclosure ? { disclosure: { ...mainInput.disclosure, suppressed: shown.suppressed, unprotected: 0, teamPage: true, ...counts } } : {};
+    const html = await renderReport({ ...input, ...note, check: shown.check, describe: shown.describe }, { ...reportOptions, team, groupBy: group });
     files.push({ path: layout.pages.get(part.row.key)!, html });
     // The page is drawn: its copy of the columns goes, so one team's copy is alive at a time.
     part.check.store.columns = {};
     parts.push(part);
   }
-  files.push({ path: layout.index, html: indexPage(input, group, parts, layout) });
+  files.push({ path: layout.index, html: indexPage(mainInput, group, parts, layout, plan) });
   return { layout, files, parts };
 }
 
 /** The index of the team pages: one row per page with its counts, and the way back. */
-function indexPage(input: ReportInput, group: string, parts: readonly TeamPart[], layout: SplitLayout): string {
+function indexPage(input: ReportInput, group: string, parts: readonly TeamPart[], layout: SplitLayout, plan?: TeamDisclosurePlan): string {
   const cb = input.codebook;
   const summary = input.check.summary;
   const label = cb.byName.get(group)?.label;
+  const counts = input.disclosure?.findings?.groups.get(group);
+  const shownErrors = (p: TeamPart): { error: number; warning: number } => counts ? (counts.get(p.row.key) ?? { error: 0, warning: 0 }) : { error: p.row.errors, warning: p.row.warnings };
   const rows = parts.map((p) => {
     const page = layout.pages.get(p.row.key)!.slice(layout.folder.length + 1);
     return [
       `<a href="${esc(page)}">${esc(p.row.name)}</a>`,
-      num(p.row.rows),
-      num(p.row.errors),
-      num(p.row.warnings),
-      pct(p.row.missingPercent),
-      worstText({ item: (n) => cb.byName.get(n) }, p.row.worst),
+      num(plan && [...(plan.lines.get(p.row.key)?.values() ?? [])].some((l) => l.rows) ? Number.NaN : p.row.rows),
+      num(shownErrors(p).error),
+      num(shownErrors(p).warning),
+      pct(plan && [...(plan.lines.get(p.row.key)?.values() ?? [])].some((l) => l.cells.some(Boolean)) ? Number.NaN : p.row.missingPercent),
+      worstText({ input, item: (n) => cb.byName.get(n) }, p.row.worst),
     ];
   });
   const sum = (f: (p: TeamPart) => number) => parts.reduce((a, p) => a + f(p), 0);
-  const fileFindings = input.check.findings.filter((f) => f.row <= 0);
+  const fileFindings = plan?.findings ? noRowTotal(plan, group) : input.check.findings.filter((f) => f.row <= 0).length;
   const body = `<section id="pages" class="block"><h2>${esc(`One page per ${group}${label ? ` (${label})` : ''}`)}</h2>
 ${table({ head: [group, 'rows', 'errors', 'warnings', 'missing %', 'worst items'], numeric: [1, 2, 3, 4], rows, className: 'wide teams' })}
 <p class="note">${esc(
-    `The pages hold ${num(sum((p) => p.row.rows))} of the delivery's ${num(summary.rows)} rows and ${num(sum((p) => p.row.errors))} of its ${num(summary.findings.bySeverity.error ?? 0)} errors` +
-      (fileFindings.length > 0 ? `; ${num(fileFindings.length)} findings belong to no row (header, whole columns) and are in the main report.` : '.'),
+    `The pages hold ${num(sum((p) => p.row.rows))} of the delivery's ${num(summary.rows)} rows and ${num(sum((p) => shownErrors(p).error))} of its ${num(summary.findings.bySeverity.error ?? 0)} errors` +
+      (fileFindings !== 0 ? `; ${num(fileFindings)} findings belong to no row (header, whole columns) and are in the main report.` : '.'),
   )}</p></section>`;
   return pageShell({
     title: `${cb.title || cb.id}: pages by ${group}`,

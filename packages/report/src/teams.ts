@@ -10,7 +10,7 @@ import { escapeHtml as esc } from './escape.ts';
 import { formatNumber as num, formatPercent as pct } from './format.ts';
 import { type Ctx, table } from './context.ts';
 import { unansweredOf, cellsOf, isFreeText } from './missingness.ts';
-import { GROUP_INVALID, GROUP_MISSING } from '@codeweir/check';
+import { GROUP_INVALID, GROUP_MISSING, NO_ROW } from '@codeweir/check';
 
 /** The key of rows whose group cell is missing or invalid, as one team page and one table row. */
 export const UNASSIGNED = '(unassigned)';
@@ -121,6 +121,9 @@ export function missingPercentOf(ctx: Pick<Ctx, 'input' | 'item'>, perItem: Reco
 
 /** Rules whose findings the log keeps only in part: per-team counts of them are lower bounds. */
 export function cappedRules(ctx: Pick<Ctx, 'input'>): string[] {
+  // Under suppression the page holds no findings: which rules are capped was noted before.
+  const shown = ctx.input.disclosure?.findings;
+  if (shown) return shown.capped;
   const logged = new Map<string, number>();
   for (const f of ctx.input.check.findings) logged.set(f.rule, (logged.get(f.rule) ?? 0) + 1);
   return Object.entries(ctx.input.check.summary.findings.byRule)
@@ -149,9 +152,12 @@ export function teamRows(ctx: Pick<Ctx, 'input' | 'item'>, group: string): TeamR
     c[f.severity]++;
     if (f.severity !== 'info') c.items.set(f.item, (c.items.get(f.item) ?? 0) + 1);
   }
+  const shown = ctx.input.disclosure?.findings?.groups.get(group);
   return keys.map((key) => {
     const perItem = tallies.get(key) ?? {};
-    const c = counts.get(key);
+    const own = shown?.get(key);
+    // Under suppression the counts are the shared suppression's, and the worst items are left out.
+    const c = shown ? { ...(own ?? { error: 0, warning: 0, info: 0 }), items: new Map<string, number>() } : counts.get(key);
     const idx = groupItem?.codeByText.get(key);
     const name = key === UNASSIGNED ? `no valid ${group} code` : idx === undefined ? `[${key}] (not in the codebook)` : `${groupItem!.codes[idx]!.label} [${key}]`;
     return {
@@ -182,8 +188,8 @@ export function findingTarget(ctx: Pick<Ctx, 'item'>, name: string): string {
 }
 
 /** A team's worst items as `item 3, rule college-age 1`, each kept on one line; `none` when there are none. */
-export const worstText = (ctx: Pick<Ctx, 'item'>, worst: Array<[string, number]>) =>
-  worst.length === 0 ? '<span class="none">none</span>' : worst.map(([n, c]) => `<span class="nobr">${findingTarget(ctx, n)} ${num(c)}</span>`).join(', ');
+export const worstText = (ctx: Pick<Ctx, 'item' | 'input'>, worst: Array<[string, number]>) =>
+  ctx.input.disclosure?.findings ? '-' : worst.length === 0 ? '<span class="none">none</span>' : worst.map(([n, c]) => `<span class="nobr">${findingTarget(ctx, n)} ${num(c)}</span>`).join(', ');
 
 /** The table of one group item's codes, with a row for the whole delivery. */
 function groupTable(ctx: Ctx, group: string, withPages: boolean, linked = true): string {
@@ -191,23 +197,24 @@ function groupTable(ctx: Ctx, group: string, withPages: boolean, linked = true):
   const summary = ctx.input.check.summary;
   const pages = withPages ? ctx.options.pages : undefined;
   const lower = cappedRules(ctx).length > 0 ? '≥ ' : '';
-  const fileErrors = ctx.input.check.findings.filter((f) => f.row <= 0 && f.severity === 'error').length;
-  const fileWarnings = ctx.input.check.findings.filter((f) => f.row <= 0 && f.severity === 'warning').length;
+  const noRow = ctx.input.disclosure?.findings?.groups.get(group)?.get(NO_ROW);
+  const fileErrors = noRow ? noRow.error : ctx.input.check.findings.filter((f) => f.row <= 0 && f.severity === 'error').length;
+  const fileWarnings = noRow ? noRow.warning : ctx.input.check.findings.filter((f) => f.row <= 0 && f.severity === 'warning').length;
   const body = rows.map((r) => {
     const page = pages?.byCode[r.key];
     const label = r.rows === 0 ? `${esc(r.name)} <span class="note">no rows</span>` : linked ? `<a href="#${teamAnchor(group, r.slug)}">${esc(r.name)}</a>` : esc(r.name);
     return [
       label,
       num(r.rows),
-      r.errors > 0 ? `<span class="n-error">${lower}${num(r.errors)}</span>` : '0',
-      r.warnings > 0 ? `<span class="n-warning">${lower}${num(r.warnings)}</span>` : '0',
-      r.rows > 0 ? pct(r.missingPercent) : '-',
-      `<span class="worst">${r.rows > 0 ? worstText(ctx, r.worst) : ''}</span>`,
+      r.errors !== 0 ? `<span class="n-error">${lower}${num(r.errors)}</span>` : '0',
+      r.warnings !== 0 ? `<span class="n-warning">${lower}${num(r.warnings)}</span>` : '0',
+      r.rows !== 0 ? pct(r.missingPercent) : '-',
+      `<span class="worst">${r.rows !== 0 ? worstText(ctx, r.worst) : ''}</span>`,
       ...(pages ? [page ? `<a href="${esc(page)}">page</a>` : ''] : []),
     ];
   });
   const extra: string[][] = [];
-  if (fileErrors + fileWarnings > 0) {
+  if (fileErrors !== 0 || fileWarnings !== 0) {
     extra.push([esc('in no row (header, whole columns)'), '', num(fileErrors), num(fileWarnings), '', '<a href="#findings">see Findings</a>', ...(pages ? [''] : [])]);
   }
   const totalErrors = summary.findings.bySeverity.error ?? 0;
@@ -247,6 +254,7 @@ ${groupTable(ctx, group, true)}<p class="note">${esc(notes.join(' '))}</p></sect
 
 /** Items of a team worth a supervisor's look: findings first, then missing percent above all rows. */
 function teamItems(ctx: Ctx, group: string, row: TeamRow, perItem: Record<string, GroupItemTally>): string {
+  if (ctx.input.disclosure?.findings) return '<p class="none">Under --min-cell a team’s counts of findings by item are left out: no table adds them up, so they could not be protected.</p>';
   const counts = new Map<string, { e: number; w: number }>();
   for (const f of ctx.input.check.findings) {
     if (keyOfFinding(f, group) !== row.key || f.severity === 'info') continue;
@@ -289,7 +297,7 @@ export function teamSectionsSection(ctx: Ctx): string {
     const tallies = tallyByKey(ctx, group);
     const pages = ctx.options.pages;
     const cards = teamRows(ctx, group)
-      .filter((r) => r.rows > 0)
+      .filter((r) => r.rows !== 0)
       .map((r) => {
         const page = pages?.byCode[r.key];
         const head = `<h3>${esc(r.name)}</h3><p class="note">${esc(`${count(r.rows, 'row')}; ${count(r.errors, 'error')}, ${count(r.warnings, 'warning')}; missing ${pct(r.missingPercent)}`)}${page ? ` &middot; <a href="${esc(page)}">the team’s own page</a>` : ''}</p>`;

@@ -4,6 +4,7 @@ import { escapeHtml as esc } from './escape.ts';
 import { formatNumber as num } from './format.ts';
 import { type Ctx, table } from './context.ts';
 import { findingTarget } from './teams.ts';
+import { FINDINGS_LEFT_OUT } from './quality.ts';
 
 /** Most rows listed; the counts stay exact and the findings section has every rule's rows. */
 export const MAX_ROWS_TO_FIX = 500;
@@ -17,6 +18,11 @@ const ORDER = { error: 0, warning: 1, info: 2 } as const;
  */
 export function toFixSection(ctx: Ctx): string {
   if (!ctx.options.team) return '';
+  if (ctx.input.disclosure?.findings) {
+    const n = ctx.input.check.summary.findings;
+    if ((n.bySeverity.error ?? 0) === 0 && (n.bySeverity.warning ?? 0) === 0) return '';
+    return `<section id="to-fix" class="block"><h2>Rows to fix</h2><p class="note">${esc(FINDINGS_LEFT_OUT)}</p></section>`;
+  }
   const list = ctx.input.check.findings.filter((f) => f.severity !== 'info').sort((a: Finding, b: Finding) => a.row - b.row || ORDER[a.severity] - ORDER[b.severity]);
   if (list.length === 0) return '';
   const shown = list.slice(0, MAX_ROWS_TO_FIX);

@@ -78,10 +78,13 @@ suite('report disclosure: the rewritten input', () => {
     const income = input.describe.items.income!;
     expect(income.max).toBeUndefined();
     expect(income.withheld.values).toMatch(/confidential/);
-    expect(input.check.findings.filter((f) => f.id !== '').every((f) => f.id === '[withheld]')).toBe(true);
-    expect(input.check.findings.filter((f) => f.item === 'income' && f.value !== '').every((f) => f.value === '[withheld]')).toBe(true);
+    // Under suppression no finding is listed; withheld values and ids are seen without it.
+    const withheld = discloseReportInput({ check, describe: described, codebook }, { minCell: 1, withhold: new Set(['income', 'hh_id']), withholdIds: true }).input;
+    expect(withheld.check.findings.length).toBe(check.findings.length);
+    expect(withheld.check.findings.filter((f) => f.id !== '').every((f) => f.id === '[withheld]')).toBe(true);
+    expect(withheld.check.findings.filter((f) => f.item === 'income' && f.value !== '').every((f) => f.value === '[withheld]')).toBe(true);
     // The fences of an outlier come from income's quartiles: no number of income's is left in the messages.
-    const outliers = input.check.findings.filter((f) => f.item === 'income' && (f.rule === 'outlier' || f.rule === 'extreme'));
+    const outliers = withheld.check.findings.filter((f) => f.item === 'income' && (f.rule === 'outlier' || f.rule === 'extreme'));
     expect(outliers.length).toBeGreaterThan(0);
     for (const f of outliers) expect(f.message).not.toMatch(/\d/);
     const scatter = input.describe.pairs.find((x) => x.kind === 'continuous-continuous');
@@ -95,5 +98,47 @@ suite('report disclosure: the rewritten input', () => {
     expect(html).toMatch(/Counts from 1 to 4 are suppressed/);
     expect(html).toMatch(/<code>income<\/code>/);
     expect(disclosureSection({ minCell: 1, suppressed: 0, withheld: [], unprotected: 0 })).toBe('');
+  });
+});
+
+suite('report disclosure: the counts of findings', () => {
+  // First principles: the findings by rule add up to the total, by severity likewise, and each
+  // rule's count is the sum of its items' counts and of the findings that name no item; the
+  // attacker (HiGHS) solves those equations for every suppressed count.
+  it('no count of findings from 1 to k - 1 is left, none suppressed can be recovered, the findings are not listed', () => {
+    const f = input.check.summary.findings;
+    const left: string[] = [];
+    for (const [r, v] of Object.entries(f.byRule)) if (small(v!)) left.push(`byRule ${r} = ${v}`);
+    for (const [sv, v] of Object.entries(f.bySeverity)) if (small(v!)) left.push(`bySeverity ${sv} = ${v}`);
+    for (const [name, t] of Object.entries(input.check.summary.items)) for (const [r, v] of Object.entries(t.findings)) if (small(v!)) left.push(`${name} ${r} = ${v}`);
+    for (const [id, res] of Object.entries(input.check.summary.rules)) for (const [c, v] of Object.entries(res)) if (small(v as number)) left.push(`rule ${id} ${c} = ${v}`);
+    for (const groups of note.findings!.groups.values()) for (const [code, c] of groups) for (const [sv, v] of Object.entries(c)) if (small(v)) left.push(`group ${code} ${sv} = ${v}`);
+    expect(left).toEqual([]);
+    expect(input.check.findings).toEqual([]);
+    expect(input.check.summary.accepted).toBe(false);
+    const raw = check.summary;
+    const rules = Object.keys(raw.findings.byRule).filter((r) => (raw.findings.byRule[r as keyof typeof raw.findings.byRule] ?? 0) > 0) as Array<keyof typeof raw.findings.byRule>;
+    expect(rules.some((r) => Number.isNaN(f.byRule[r]!))).toBe(true);
+    const eqs: Equation[] = [];
+    const term = (v: number, name: string, terms: Array<[string, number]>): number => (Number.isNaN(v) ? (terms.push([name, 1]), 0) : v);
+    // By rule and by severity against the total (each rule but the cross-item rules has one severity).
+    {
+      const terms: Array<[string, number]> = [];
+      const known = rules.reduce((a, r) => a + term(f.byRule[r]!, `rule:${r}`, terms), 0);
+      eqs.push({ terms, rhs: raw.findings.total - known });
+    }
+    // Each rule: its items' counts, plus the findings of no item (an unknown of their own).
+    for (const r of rules) {
+      const terms: Array<[string, number]> = [[`rest:${r}`, 1]];
+      let known = 0;
+      for (const [name, t] of Object.entries(input.check.summary.items)) if (t.findings[r] !== undefined) known += term(t.findings[r]!, `${name}:${r}`, terms);
+      if (Number.isNaN(f.byRule[r]!)) terms.push([`rule:${r}`, -1]);
+      else known -= f.byRule[r]!;
+      eqs.push({ terms, rhs: -known });
+    }
+    const live = eqs.filter((e) => e.terms.length > 0);
+    const suppressedNames = new Set(live.flatMap((e) => e.terms.map(([n]) => n)).filter((n) => !n.startsWith('rest:')));
+    expect([...eliminated(live)].filter((n) => suppressedNames.has(n))).toEqual([]);
+    for (const [cell, [lo, hi]] of feasibleBounds(live)) if (suppressedNames.has(cell)) expect(hi - lo, `${cell} in [${lo}, ${hi}]`).toBeGreaterThanOrEqual(1);
   });
 });

@@ -37,6 +37,7 @@ export interface SuppressionPreset {
   avoid?: ReadonlyArray<ReadonlyArray<boolean>>;
   rowTotals?: readonly boolean[];
   columnTotals?: readonly boolean[];
+  grandTotal?: boolean;
 }
 
 /** 0 shown, 1 suppressed because below k, 2 suppressed to protect another cell. */
@@ -132,7 +133,7 @@ export function suppressCells(table: readonly (readonly number[])[], minCell: nu
   const value = (i: number, j: number): number => (i < m && j < n ? table[i]![j]! : i < m ? totals.rows[i]! : j < n ? totals.columns[j]! : totals.grand);
   const shownAs = (i: number, j: number): MarginShown => (i < m && j < n ? 'shown' : i < m ? rowShown(i) : j < n ? colShown(j) : grandShown);
   const presetAt = (i: number, j: number): boolean =>
-    (i < m && j < n ? preset.cells?.[i]?.[j] : i < m ? preset.rowTotals?.[i] : j < n ? preset.columnTotals?.[j] : false) === true;
+    (i < m && j < n ? preset.cells?.[i]?.[j] : i < m ? preset.rowTotals?.[i] : j < n ? preset.columnTotals?.[j] : preset.grandTotal) === true;
   const state = new Uint8Array((m + 1) * W);
   let primary = 0;
   for (let i = 0; i <= m; i++) {

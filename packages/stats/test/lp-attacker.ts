@@ -40,6 +40,8 @@ export function feasibleBounds(equations: readonly Equation[]): Map<string, [num
   for (const v of names) {
     const solve = (sense: string): number => {
       const r = highs.solve(`${sense}\n obj: ${safe.get(v)}\nSubject To\n${rows.join('\n')}\nBounds\n${bounds}\nEnd\n`);
+      // Nothing bounds the unknown from above: it cannot be recovered.
+      if (r.Status === 'Unbounded' && sense === 'Maximize') return Number.POSITIVE_INFINITY;
       if (r.Status !== 'Optimal') throw new Error(`attacker LP ${r.Status}`);
       return r.ObjectiveValue;
     };

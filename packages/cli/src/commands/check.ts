@@ -180,7 +180,7 @@ export const checkCommand: CommandDef = {
     const exit = errors > 0 || (failOnWarning && warnings > 0) ? 1 : 0;
     // The verdict in the summary follows the same threshold as the exit code.
     result.summary.accepted = exit === 0;
-    if (args.out !== undefined) await writeCheckOutputs(result, resolve(io.cwd, String(args.out)), { splitBy, disclosure });
+    if (args.out !== undefined) await writeCheckOutputs(result, resolve(io.cwd, String(args.out)), { splitBy, disclosure: { ...disclosure, ruleSeverity: new Map(codebook.rules.map((r) => [r.id, r.severity])) } });
     const recorded = season === undefined ? undefined : await season.record(result, codebook, { io, data, dataPath, engine, input, options, splitBy, out: args.out });
     if (args.json === true) io.stdout(JSON.stringify(recorded === undefined ? result.summary : { ...result.summary, [recorded.key]: recorded.json }, null, 2) + '\n');
     else {

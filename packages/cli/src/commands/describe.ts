@@ -5,6 +5,7 @@ import type { CommandDef } from '../io.ts';
 import { FORMAT_OPTION, SHEET_OPTION, checkTypedInput, inputFormatOf, isPlainText } from '../formats.ts';
 import { THREADS_OPTION, threadsOption } from '../threads.ts';
 import { LANG_OPTION, langOption } from '../lang.ts';
+import { MIN_CELL_OPTION, disclosureChoice } from '../disclosure.ts';
 
 /** Numbers in the text summary: four significant digits, whole numbers as they are. */
 function num(x: number | undefined | null): string {
@@ -13,7 +14,7 @@ function num(x: number | undefined | null): string {
 }
 
 function missingText(d: ItemDescription): string {
-  const parts = Object.entries(d.missing).map(([kind, n]) => `${kind} ${n}`);
+  const parts = Object.entries(d.missing).map(([kind, n]) => `${kind} ${num(n)}`);
   return parts.length > 0 ? parts.join(', ') : 'none';
 }
 
@@ -25,14 +26,14 @@ function isoDay(x: number | undefined): string {
 
 /** A few readable lines for one item, by its level. */
 function itemLines(name: string, d: ItemDescription, date: boolean): string[] {
-  const head = `${name} (${d.level}${d.binned ? ', binned' : ''}${d.unit ? `, ${d.unit}` : ''}): n ${d.n}, missing ${missingText(d)}, invalid ${d.invalid}`;
+  const head = `${name} (${d.level}${d.binned ? ', binned' : ''}${d.unit ? `, ${d.unit}` : ''}): n ${num(d.n)}, missing ${missingText(d)}, invalid ${num(d.invalid)}`;
   const lines = [head];
   if (d.frequencies) {
     const shown = d.frequencies.slice(0, 12);
     for (const f of shown) {
       const cum = f.cumulativePercent !== undefined ? `  cum ${num(f.cumulativePercent)}%` : '';
       const w = f.weightedPercent !== undefined ? `  weighted ${num(f.weightedPercent)}%` : '';
-      lines.push(`  ${String(f.code).padStart(4)} ${f.label.slice(0, 30).padEnd(30)} ${String(f.count).padStart(7)}  ${num(f.percent).padStart(6)}%${cum}${w}`);
+      lines.push(`  ${String(f.code).padStart(4)} ${f.label.slice(0, 30).padEnd(30)} ${num(f.count).padStart(7)}  ${num(f.percent).padStart(6)}%${cum}${w}`);
     }
     if (d.frequencies.length > shown.length) lines.push(`  ... ${d.frequencies.length - shown.length} more codes`);
     if (d.mode && d.mode.length > 0) lines.push(`  mode ${d.mode.join(', ')}`);
@@ -60,7 +61,7 @@ function itemLines(name: string, d: ItemDescription, date: boolean): string[] {
     const w = d.weighted;
     const at = date ? isoDay : num;
     const figures = w.mean !== undefined ? `, mean ${at(w.mean)}, sd ${num(w.sd)}, median ${at(w.median)}` : w.medianCode ? `, median ${w.medianCode.code}` : '';
-    lines.push(`  weighted: sum of weights ${num(w.sumOfWeights)}, n ${w.n}, excluded ${w.excluded}${figures}`);
+    lines.push(`  weighted: sum of weights ${num(w.sumOfWeights)}, n ${num(w.n)}, excluded ${num(w.excluded)}${figures}`);
     lines.push(...designLines(d));
   }
   return lines;
@@ -84,7 +85,7 @@ function designLines(d: ItemDescription): string[] {
   lines.push(...figures(w).map((l) => `  design: ${l}`));
   for (const [code, dom] of Object.entries(d.domains ?? {})) {
     if (dom.n === 0) lines.push(`  domain ${code} (${dom.label}): no cases`);
-    else lines.push(...figures(dom).map((l) => `  domain ${code} (${dom.label}), n ${dom.n}: ${l}`));
+    else lines.push(...figures(dom).map((l) => `  domain ${code} (${dom.label}), n ${num(dom.n)}: ${l}`));
   }
   return lines;
 }
@@ -141,6 +142,7 @@ export const describeCommand: CommandDef = {
       .option('listwise', { type: 'boolean', describe: 'pairs use only rows valid on every item of every requested pair' })
       .option('weight', { type: 'string', describe: "weight item (default: the codebook's weight item)" })
       .options(DESIGN_OPTIONS)
+      .option('min-cell', MIN_CELL_OPTION)
       .option('quantiles', { type: 'string', describe: 'Hyndman-Fan quantile type, 1 to 9 (default 7)' })
       .option('percentiles', { type: 'string', describe: 'extra percentiles, e.g. 10,90' })
       .option('delimiter', { type: 'string', describe: 'field delimiter (detected when absent)' })
@@ -158,7 +160,7 @@ export const describeCommand: CommandDef = {
     }
     const threads = threadsOption(args.threads);
     // Loaded here, not at the top, so that starting the CLI costs only the command it runs.
-    const [{ loadCodebookOrThrow }, { checkFile }, { describeParallel, normalizeDescribeOptions }] = await Promise.all([
+    const [{ loadCodebookOrThrow }, { checkFile, missingnessSuppression, KINDS }, { describeParallel, normalizeDescribeOptions, suppressDescription }] = await Promise.all([
       import('@codeweir/codebook'),
       import('@codeweir/check'),
       import('@codeweir/describe'),
@@ -178,8 +180,22 @@ export const describeCommand: CommandDef = {
     const result = (await isPlainText(dataPath, input))
       ? await checkFile(dataPath, codebook, { quantileType: options.quantileType, delimiter: args.delimiter, encoding: args.encoding, threads })
       : await checkTypedInput(dataPath, codebook, { quantileType: options.quantileType, delimiter: args.delimiter as string | undefined, encoding: args.encoding as string | undefined }, input);
-    const described = await describeParallel(result, codebook, options, { threads });
-    io.stdout(args.json === true ? JSON.stringify(described, null, 2) + '\n' : describeText(described, dateItems(codebook)));
+    const plain = await describeParallel(result, codebook, options, { threads });
+    // --min-cell: counts below k suppressed with their complements, the item tallies as check's missingness.csv has them.
+    const { minCell } = disclosureChoice(args, codebook);
+    let described: DescribeResult = plain;
+    let json: unknown = plain;
+    if (minCell > 1) {
+      const ms = missingnessSuppression(result, minCell);
+      const lines = (name: string) => {
+        const l = ms.overall.get(name);
+        return l && { valid: l.cells[0] !== 0, invalid: l.cells[1] !== 0, missing: Object.fromEntries(KINDS.map((k, j) => [k, l.cells[2 + j] !== 0])) };
+      };
+      const s = suppressDescription(plain, minCell, lines);
+      described = s.result;
+      json = { ...s.result, disclosure: { minCell, suppressed: s.suppressed, unprotected: ms.unprotected } };
+    }
+    io.stdout(args.json === true ? JSON.stringify(json, null, 2) + '\n' : describeText(described, dateItems(codebook)) + (minCell > 1 ? `Disclosure control: counts from 1 to ${minCell - 1} are suppressed (-), with the counts that would give them away.\n` : ''));
     // The exit code follows the contract for every command: 1 when the delivery has findings
     // at error severity. The summaries above cover valid cells only, so they stand either way.
     const errors = result.summary.findings.bySeverity.error ?? 0;

@@ -97,9 +97,6 @@ export const reportCommand: CommandDef = {
     const codebook = await loadCodebookOrThrow(resolve(io.cwd, String(args.codebook)), lang === undefined ? {} : { lang });
     const splitBy = args['split-by'] === undefined ? undefined : groupItemOrThrow(codebook, String(args['split-by']));
     const disclosure = disclosureChoice(args, codebook);
-    if (disclosure.minCell > 1 && splitBy !== undefined) {
-      throw new CodeweirError('CW_USAGE', '--min-cell does not combine with --split-by in report yet: the team pages would need the main page\'s suppression; send teams the files of check --split-by --min-cell instead.');
-    }
     const seasonOptions = await reportSeasonOptions(args, io.cwd);
     const progress = createProgress(io, { label: 'reading rows', quiet: args.quiet === true });
     try {
@@ -124,12 +121,14 @@ export const reportCommand: CommandDef = {
       const season = seasonOptions === undefined ? undefined : await seasonForReport(seasonOptions, io.cwd, result, codebook, { path: dataPath, name: data, input, read: { delimiter: checkOptions.delimiter, encoding: checkOptions.encoding }, threads, ...(splitBy ? { groupItem: splitBy } : {}) });
       const plainInput = { check: result, describe: described, codebook, file: data, ...(season ? { season } : {}) };
       // Disclosure control only when asked for or needed (a confidential item): otherwise the report is as before.
-      const reportInput = disclosure.minCell > 1 || disclosure.withhold.size > 0 ? discloseReportInput(plainInput, disclosure).input : plainInput;
+      // With suppression and --split-by, renderSplitReport discloses the main page and the team pages together.
+      const together = splitBy !== undefined && disclosure.minCell > 1;
+      const reportInput = !together && (disclosure.minCell > 1 || disclosure.withhold.size > 0) ? discloseReportInput(plainInput, disclosure).input : plainInput;
       let pages = '';
       if (splitBy === undefined) {
         await writeFileAtomic(outPath, await renderReport(reportInput));
       } else {
-        const split = await renderSplitReport(reportInput, { splitBy, mainFile: basename(outPath), describeOptions: { ...describeOptions, pairs: [] } });
+        const split = await renderSplitReport(reportInput, { splitBy, mainFile: basename(outPath), describeOptions: { ...describeOptions, pairs: [] }, ...(together ? { disclosure } : {}) });
         await writeFilesAtomic(split.files.map((f) => [join(dirname(outPath), f.path), f.html] as const));
         pages = ` and ${split.parts.length} ${splitBy} page${split.parts.length === 1 ? '' : 's'} in ${join(dirname(out), split.layout.folder)}`;
       }
