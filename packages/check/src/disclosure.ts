@@ -181,6 +181,11 @@ export function withholdFindings(findings: readonly Finding[], opts: DisclosureO
   });
 }
 
+/** Items whose overall invalid count the missingness tables suppress (the findings suppression's starting point). Cost: O(items). */
+export function invalidSuppressedItems(s: MissingnessSuppression): Set<string> {
+  return new Set([...s.overall].filter(([, l]) => l.cells[1] !== 0).map(([name]) => name));
+}
+
 /**
  * The summary as `summary.json` writes it under suppression: every count from 1 to k - 1 and its
  * complements written as null, with the same states as the files beside it (the item tallies as
@@ -210,7 +215,7 @@ export function suppressedSummary(result: CheckResult, s: MissingnessSuppression
   for (const [g, byKey] of Object.entries(doc.groups)) for (const [code, perItem] of Object.entries(byKey)) for (const [name, t] of Object.entries(perItem)) line(t, s.byGroup.get(g)?.get(code)?.get(name), `groups.${g}.${code}.${name}`);
   const ruleSeverity = new Map(opts.ruleSeverity ?? []);
   for (const f of result.findings) if (f.rule === 'rule-failed' && !ruleSeverity.has(f.item)) ruleSeverity.set(f.item, f.severity);
-  const fs = findingsSuppression({ summary: result.summary, findings: result.findings, ruleSeverity, invalidSuppressed: new Set([...s.overall].filter(([, l]) => l.cells[1] !== 0).map(([n]) => n)) }, k);
+  const fs = findingsSuppression({ summary: result.summary, findings: result.findings, ruleSeverity, invalidSuppressed: invalidSuppressedItems(s) }, k);
   const hide = (obj: Record<string, unknown>, key: string, sKey: string, path: string): void => {
     if (obj[key] !== undefined && fs.suppressed.has(sKey)) nul(obj, key, path);
   };

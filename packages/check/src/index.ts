@@ -13,5 +13,5 @@ export { mapHeader, type HeaderMap } from './header.ts';
 export { parseNumber, parseIsoDate } from './parse.ts';
 export { writeCheckOutputs, folderName, findingsCsv, findingsJsonl, missingnessCsv, missingnessByGroupCsv, neutraliseCell, type WriteCheckOptions } from './outputs.ts';
 export { rules, RULE_ORDER, RULE_NUMBER, type RuleDef } from './rules/index.ts';
-export { missingnessSuppression, suppressedSummary, suppressedMissingCells, withholdFindings, tallyCells, SUPPRESSED_MARK, WITHHELD_MARK, type DisclosureOptions, type LineStates, type MissingnessSuppression } from './disclosure.ts';
+export { missingnessSuppression, invalidSuppressedItems, suppressedSummary, suppressedMissingCells, withholdFindings, tallyCells, SUPPRESSED_MARK, WITHHELD_MARK, type DisclosureOptions, type LineStates, type MissingnessSuppression } from './disclosure.ts';
 export { findingsSuppression, INVALIDATING_RULES, SEVERITIES, NO_ROW, NOT_LOGGED, keyRule, keySeverity, KEY_TOTAL, keyRuleAt, keyItemRule, keyCrossRule, keyGroupSeverity, keyGroupTotal, keyGroupRule, type FindingsSuppression, type FindingsSuppressionInput, type FindingsGroup } from './findings-disclosure.ts';

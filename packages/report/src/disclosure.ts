@@ -15,7 +15,7 @@
  * but counts and missingness of a confidential item; pairs with a confidential item.
  */
 import { suppressCells, type CellState } from '@codeweir/stats';
-import { missingnessSuppression, withholdFindings, WITHHELD_MARK, type LineStates } from '@codeweir/check';
+import { invalidSuppressedItems, missingnessSuppression, withholdFindings, WITHHELD_MARK, type LineStates } from '@codeweir/check';
 import { findingsSuppression, keyRule, keySeverity, keyRuleAt, keyItemRule, keyCrossRule, keyGroupSeverity, keyGroupRule, keyGroupTotal, KEY_TOTAL, NO_ROW, SEVERITIES, type FindingsSuppression } from '@codeweir/check';
 import type { CheckSummary, FindingRule, FindingSeverity, GroupItemTally } from '@codeweir/check';
 import type { ItemDescription, PairDescription } from '@codeweir/describe';
@@ -236,7 +236,7 @@ export function discloseReportInput(input: ReportInput, opts: ReportDisclosure):
       summary.recordMissing = summary.recordMissing.map((v, i) => (states[i] ? Number.NaN : v));
       suppressed += states.filter((x) => x !== 0).length;
     }
-    const invalidSuppressed = new Set([...s.overall].filter(([, l]) => l.cells[1] !== 0).map(([name]) => name));
+    const invalidSuppressed = invalidSuppressedItems(s);
     fs = findingsSuppression(
       {
         summary: input.check.summary,
